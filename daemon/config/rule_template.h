@@ -1,0 +1,48 @@
+// Rule templates: one asset class per YAML file, instantiated once per asset of a site.
+//
+// read_template() checks a template's top level and its parameter declarations (identifier
+// names; a default that is a number, or a duration when the unit is "s"; min <= default <= max).
+// instantiate_template() builds an asset's inputs, derived signals, estimators and checks from
+// the template with one set of parameter values, checking every key against the schema
+// (config/schema.h): unknown keys (with a suggestion), wrong types, values out of bounds, missing
+// required keys, parameter references to nothing, and operand counts of derived signals.
+// Cross references between signals and estimators are left to engine::analyse_asset().
+//
+// Both report into the caller's diagnostic list and keep going after an error; what they
+// return is complete only when they added no diagnostic. Not thread-safe.
+#pragma once
+
+#include <optional>
+#include <string>
+#include <string_view>
+#include <vector>
+
+#include "config/config_node.h"
+#include "config/diagnostic.h"
+#include "config/field_reader.h"
+#include "config/schema.h"
+#include "config/source_text.h"
+#include "engine/site_model.h"
+
+namespace bw::config {
+
+struct RuleTemplate {
+  std::string name;
+  std::string description;
+  std::vector<ParameterDecl> parameters;
+  ConfigNode document;  // the whole file, read again for each asset
+};
+
+std::optional<RuleTemplate> read_template(const ConfigNode& document, const SourceText& source,
+                                          std::string_view expected_name,
+                                          std::vector<Diagnostic>& diagnostics);
+
+// The declared defaults by parameter name.
+ParameterValues default_values(const RuleTemplate& rule);
+
+// Appends the template's definitions to `asset` (whose name is used in messages).
+void instantiate_template(const RuleTemplate& rule, const SourceText& source,
+                          const ParameterValues& values, engine::AssetSpec& asset,
+                          std::vector<Diagnostic>& diagnostics);
+
+}  // namespace bw::config

@@ -1,0 +1,270 @@
+// The configuration schema: every key of every section, declared once.
+//
+// Each table row gives a key's YAML name, the struct member it fills (so its type and its
+// default are those of the member in engine/site_model.h), its bounds, whether it is a duration
+// (written as seconds or "90s", "15min", "6h", "1.5d"; stored in seconds) and whether it is
+// required. read_keys() reads the listed keys of one mapping into a struct; unknown keys are
+// reported separately by FieldReader::check_keys with allowed_keys() of the section.
+//
+// Rule template schema (rules/<name>.yaml; the `template` key equals the file stem):
+//   template, description              texts (both required)
+//   parameters: {<name>: {default, unit, description, min, max}}   default: number or duration
+//   inputs:     {<role>: kInputKeys}
+//   signals:    {<name>: kSignalKeys}          op: linear, sum, difference, product, ratio
+//   estimators: {<name>: {kind, ...}}          kind: ewma, cusum, ewma_chart, rls, trend, rate
+//   checks:     {<name>: {kind, priority, message, ...}}   kind: limit, statistical, time_to_limit
+// Any numeric value in a template may name a parameter instead.
+// Site schema (see site_loader.h): site {name, time_zone}, rules [folders], assets {<name>:
+// {template, description, tags {role: tag}, parameters {name: value}}}.
+#pragma once
+
+#include <array>
+#include <optional>
+#include <span>
+#include <string>
+#include <string_view>
+#include <utility>
+#include <variant>
+#include <vector>
+
+#include "config/field_reader.h"
+#include "core/overloaded.h"
+#include "engine/site_model.h"
+
+namespace bw::config {
+
+// A [low, high] pair of optional members (an instrument range).
+template <class Spec>
+struct RangeMembers {
+  std::optional<double> Spec::*low;
+  std::optional<double> Spec::*high;
+};
+
+template <class Spec>
+using Member =
+    std::variant<double Spec::*, bool Spec::*, std::string Spec::*,
+                 std::vector<std::string> Spec::*, std::optional<double> Spec::*,
+                 engine::BaselineSpec Spec::*, engine::Priority Spec::*,
+                 engine::LimitDirection Spec::*, engine::SignalOp Spec::*, RangeMembers<Spec>>;
+
+template <class Spec>
+struct Key {
+  std::string_view name;
+  Member<Spec> member;
+  Bounds bounds = kAnyValue;
+  bool duration = false;
+  bool required = false;
+};
+
+// Names as written in files. Order is the order shown in messages.
+inline constexpr std::array<std::pair<std::string_view, engine::Priority>, 4> kPriorityNames{{
+    {"low", engine::Priority::low},
+    {"medium", engine::Priority::medium},
+    {"high", engine::Priority::high},
+    {"urgent", engine::Priority::urgent},
+}};
+inline constexpr std::array<std::pair<std::string_view, engine::LimitDirection>, 2> kDirectionNames{
+    {{"high", engine::LimitDirection::high}, {"low", engine::LimitDirection::low}}};
+// Operation names; engine::signal_op_name() gives the same names the other way round.
+inline constexpr std::array<std::pair<std::string_view, engine::SignalOp>, 5> kSignalOpNames{{
+    {"linear", engine::SignalOp::linear},
+    {"sum", engine::SignalOp::sum},
+    {"difference", engine::SignalOp::difference},
+    {"product", engine::SignalOp::product},
+    {"ratio", engine::SignalOp::ratio},
+}};
+
+std::string_view priority_name(engine::Priority priority);
+std::string_view direction_name(engine::LimitDirection direction);
+
+// A parameter declared by a rule template.
+struct ParameterDecl {
+  std::string name;
+  double default_value = 0;  // engineering units; seconds when unit is "s"
+  std::string unit;
+  std::string description;
+  std::optional<double> min;
+  std::optional<double> max;
+  engine::Where where;
+};
+
+// clang-format off
+inline constexpr std::array<Key<ParameterDecl>, 5> kParameterKeys{{
+    {"default", &ParameterDecl::default_value, kAnyValue, true, true},
+    {"unit", &ParameterDecl::unit, kAnyValue, false, true},
+    {"description", &ParameterDecl::description, kAnyValue, false, true},
+    {"min", &ParameterDecl::min},
+    {"max", &ParameterDecl::max},
+}};
+
+inline constexpr std::array<Key<engine::InputSpec>, 4> kInputKeys{{
+    {"unit", &engine::InputSpec::unit, kAnyValue, false, true},
+    {"required", &engine::InputSpec::required},
+    {"expected_interval", &engine::InputSpec::expected_interval_s, kNonNegative, true},
+    {"range", RangeMembers<engine::InputSpec>{&engine::InputSpec::range_low,
+                                               &engine::InputSpec::range_high}},
+}};
+
+inline constexpr std::array<Key<engine::SignalSpec>, 6> kSignalKeys{{
+    {"op", &engine::SignalSpec::op, kAnyValue, false, true},
+    {"of", &engine::SignalSpec::operands, kAnyValue, false, true},
+    {"unit", &engine::SignalSpec::unit, kAnyValue, false, true},
+    {"gain", &engine::SignalSpec::gain},
+    {"offset", &engine::SignalSpec::offset},
+    {"exponent", &engine::SignalSpec::exponent},
+}};
+
+inline constexpr std::array<Key<engine::BaselineSpec>, 3> kBaselineKeys{{
+    {"target", &engine::BaselineSpec::target},
+    {"sigma", &engine::BaselineSpec::sigma, kPositive},
+    {"learn", &engine::BaselineSpec::learn_s, kNonNegative, true},
+}};
+
+inline constexpr std::array<Key<engine::EwmaSpec>, 2> kEwmaKeys{{
+    {"of", &engine::EwmaSpec::of, kAnyValue, false, true},
+    {"time_constant", &engine::EwmaSpec::time_constant_s, kPositive, true, true},
+}};
+
+inline constexpr std::array<Key<engine::CusumSpec>, 7> kCusumKeys{{
+    {"of", &engine::CusumSpec::of, kAnyValue, false, true},
+    {"k", &engine::CusumSpec::k, kNonNegative},
+    {"h", &engine::CusumSpec::h, kPositive},
+    {"head_start", &engine::CusumSpec::head_start, kNonNegative},
+    {"restart_after_signal", &engine::CusumSpec::restart_after_signal},
+    {"max_sum", &engine::CusumSpec::max_sum, kNonNegative},
+    {"baseline", &engine::CusumSpec::baseline, kAnyValue, false, true},
+}};
+
+inline constexpr std::array<Key<engine::EwmaChartSpec>, 6> kEwmaChartKeys{{
+    {"of", &engine::EwmaChartSpec::of, kAnyValue, false, true},
+    {"lambda", &engine::EwmaChartSpec::lambda, kUnitInterval},
+    {"nominal_interval", &engine::EwmaChartSpec::nominal_interval_s, kPositive, true},
+    {"width", &engine::EwmaChartSpec::width, kPositive},
+    {"time_varying_limits", &engine::EwmaChartSpec::time_varying_limits},
+    {"baseline", &engine::EwmaChartSpec::baseline, kAnyValue, false, true},
+}};
+
+inline constexpr std::array<Key<engine::RlsSpec>, 9> kRlsKeys{{
+    {"target", &engine::RlsSpec::target, kAnyValue, false, true},
+    {"regressors", &engine::RlsSpec::regressors, kAnyValue, false, true},
+    {"intercept", &engine::RlsSpec::intercept},
+    {"forgetting", &engine::RlsSpec::forgetting, kUnitInterval},
+    {"nominal_interval", &engine::RlsSpec::nominal_interval_s, kPositive, true},
+    {"learn", &engine::RlsSpec::learn_s, kNonNegative, true},
+    {"initial_covariance", &engine::RlsSpec::initial_covariance, kPositive},
+    {"max_covariance_trace", &engine::RlsSpec::max_covariance_trace, kPositive},
+    {"residual_time_constant", &engine::RlsSpec::residual_time_constant_s, kPositive, true},
+}};
+
+inline constexpr std::array<Key<engine::TrendSpec>, 2> kTrendKeys{{
+    {"of", &engine::TrendSpec::of, kAnyValue, false, true},
+    {"time_constant", &engine::TrendSpec::time_constant_s, kNonNegative, true},
+}};
+
+inline constexpr std::array<Key<engine::RateSpec>, 2> kRateKeys{{
+    {"of", &engine::RateSpec::of, kAnyValue, false, true},
+    {"time_constant", &engine::RateSpec::time_constant_s, kNonNegative, true},
+}};
+
+// Keys every check has besides `kind`.
+inline constexpr std::array<Key<engine::CheckSpec>, 2> kCheckCommonKeys{{
+    {"priority", &engine::CheckSpec::priority},
+    {"message", &engine::CheckSpec::message, kAnyValue, false, true},
+}};
+
+inline constexpr std::array<Key<engine::LimitCheckSpec>, 4> kLimitCheckKeys{{
+    {"of", &engine::LimitCheckSpec::of, kAnyValue, false, true},
+    {"direction", &engine::LimitCheckSpec::direction},
+    {"limit", &engine::LimitCheckSpec::limit, kAnyValue, false, true},
+    {"deadband", &engine::LimitCheckSpec::deadband, kNonNegative},
+}};
+
+inline constexpr std::array<Key<engine::StatisticalCheckSpec>, 1> kStatisticalCheckKeys{{
+    {"estimator", &engine::StatisticalCheckSpec::estimator, kAnyValue, false, true},
+}};
+
+inline constexpr std::array<Key<engine::TimeToLimitCheckSpec>, 4> kTimeToLimitCheckKeys{{
+    {"estimator", &engine::TimeToLimitCheckSpec::estimator, kAnyValue, false, true},
+    {"direction", &engine::TimeToLimitCheckSpec::direction},
+    {"limit", &engine::TimeToLimitCheckSpec::limit, kAnyValue, false, true},
+    {"lead_time", &engine::TimeToLimitCheckSpec::lead_time_s, kPositive, true, true},
+}};
+
+inline constexpr std::array<Key<engine::SiteSpec>, 2> kSiteKeys{{
+    {"name", &engine::SiteSpec::name, kAnyValue, false, true},
+    {"time_zone", &engine::SiteSpec::time_zone, kAnyValue, false, true},
+}};
+
+// `tags` and `parameters` of an asset are mappings of names, read by the site loader.
+inline constexpr std::array<Key<engine::AssetSpec>, 2> kAssetKeys{{
+    {"template", &engine::AssetSpec::template_name, kAnyValue, false, true},
+    {"description", &engine::AssetSpec::description},
+}};
+// clang-format on
+
+// The names of a table's keys followed by `extra` names handled by hand.
+template <class Spec, std::size_t N>
+std::vector<std::string_view> allowed_keys(const std::array<Key<Spec>, N>& keys,
+                                           std::initializer_list<std::string_view> extra = {}) {
+  std::vector<std::string_view> names;
+  for (const auto& key : keys) names.push_back(key.name);
+  names.insert(names.end(), extra.begin(), extra.end());
+  return names;
+}
+
+// Reads a baseline mapping: target and sigma optional, learn required unless both are given.
+void read_baseline(FieldReader& reader, const ConfigNode& value, std::string_view what,
+                   engine::BaselineSpec& out);
+
+// Reads "[low, high]" with low < high.
+std::optional<std::pair<double, double>> read_range(FieldReader& reader, const ConfigNode& value,
+                                                    std::string_view what);
+
+// Reads every key of `keys` present in `map` into `out`; missing required keys are reported.
+// Returns false when any key failed.
+template <class Spec, std::size_t N>
+bool read_keys(FieldReader& reader, const ConfigNode& map, const std::array<Key<Spec>, N>& keys,
+               Spec& out, std::string_view section) {
+  const std::size_t errors_before = reader.error_count();
+  for (const auto& key : keys) {
+    const ConfigNode* value =
+        key.required ? reader.require(map, key.name, section) : map.find(key.name);
+    if (value == nullptr) continue;
+    const std::string what = std::string(section) + ": key '" + std::string(key.name) + "'";
+    auto store = [&](auto member, auto parsed) {
+      if (parsed) out.*member = std::move(*parsed);
+    };
+    std::visit(
+        core::Overloaded{
+            [&](double Spec::*m) {
+              store(m, reader.number(*value, what, key.bounds, key.duration));
+            },
+            [&](std::optional<double> Spec::*m) {
+              if (auto v = reader.number(*value, what, key.bounds, key.duration)) out.*m = *v;
+            },
+            [&](bool Spec::*m) { store(m, reader.flag(*value, what)); },
+            [&](std::string Spec::*m) { store(m, reader.text(*value, what)); },
+            [&](std::vector<std::string> Spec::*m) { store(m, reader.text_list(*value, what)); },
+            [&](engine::BaselineSpec Spec::*m) { read_baseline(reader, *value, what, out.*m); },
+            [&](engine::Priority Spec::*m) {
+              store(m, reader.choice<engine::Priority>(*value, what, kPriorityNames));
+            },
+            [&](engine::LimitDirection Spec::*m) {
+              store(m, reader.choice<engine::LimitDirection>(*value, what, kDirectionNames));
+            },
+            [&](engine::SignalOp Spec::*m) {
+              store(m, reader.choice<engine::SignalOp>(*value, what, kSignalOpNames));
+            },
+            [&](RangeMembers<Spec> r) {
+              if (auto range = read_range(reader, *value, what)) {
+                out.*(r.low) = range->first;
+                out.*(r.high) = range->second;
+              }
+            },
+        },
+        key.member);
+  }
+  return reader.error_count() == errors_before;
+}
+
+}  // namespace bw::config

@@ -1,0 +1,258 @@
+#include "core/overloaded.h"
+#include "engine/asset_graph.h"
+
+#include <array>
+#include <map>
+#include <optional>
+
+namespace bw::engine {
+namespace {
+
+constexpr std::array<std::string_view, 2> kEwmaOutputs{"mean", "stddev"};
+constexpr std::array<std::string_view, 2> kCusumOutputs{"upper", "lower"};
+constexpr std::array<std::string_view, 3> kChartOutputs{"statistic", "upper_limit",
+                                                        "lower_limit"};
+constexpr std::array<std::string_view, 3> kRlsOutputs{"prediction", "residual",
+                                                      "residual_percent"};
+constexpr std::array<std::string_view, 2> kTrendOutputs{"level", "slope_per_hour"};
+constexpr std::array<std::string_view, 1> kRateOutputs{"per_hour"};
+
+// Resolves names to graph nodes and walks the graph depth first.
+class Analyser {
+ public:
+  explicit Analyser(const AssetSpec& asset) : asset_(asset) {}
+
+  AssetGraph run() {
+    index_names();
+    check_inputs_bound();
+    check_operand_counts();
+    for (std::size_t i = 0; i < asset_.signals.size(); ++i) {
+      visit({GraphNode::Kind::signal, i});
+    }
+    for (std::size_t i = 0; i < asset_.estimators.size(); ++i) {
+      visit({GraphNode::Kind::estimator, i});
+    }
+    check_checks();
+    return std::move(graph_);
+  }
+
+ private:
+  enum class Mark : std::uint8_t { unvisited, in_progress, done };
+
+  void problem(std::string message, const Where& where) {
+    graph_.problems.push_back({std::move(message), where});
+  }
+
+  void define(const std::string& name, GraphNode node, const Where& where) {
+    auto [it, inserted] = names_.emplace(name, node);
+    if (!inserted) problem("name '" + name + "' is defined twice in asset '" + asset_.name + "'", where);
+  }
+
+  void index_names() {
+    for (std::size_t i = 0; i < asset_.inputs.size(); ++i) {
+      define(asset_.inputs[i].role, {GraphNode::Kind::input, i}, asset_.inputs[i].where);
+    }
+    for (std::size_t i = 0; i < asset_.signals.size(); ++i) {
+      define(asset_.signals[i].name, {GraphNode::Kind::signal, i}, asset_.signals[i].where);
+    }
+    for (std::size_t i = 0; i < asset_.estimators.size(); ++i) {
+      const auto& e = asset_.estimators[i];
+      define(e.name, {GraphNode::Kind::estimator, i}, e.where);
+    }
+    marks_[static_cast<int>(GraphNode::Kind::signal)].assign(asset_.signals.size(), Mark::unvisited);
+    marks_[static_cast<int>(GraphNode::Kind::estimator)].assign(asset_.estimators.size(),
+                                                                Mark::unvisited);
+  }
+
+  void check_inputs_bound() {
+    for (const auto& input : asset_.inputs) {
+      if (input.required && input.tag.empty()) {
+        problem("required input '" + input.role + "' of asset '" + asset_.name +
+                    "' is not bound to a tag",
+                asset_.where);
+      }
+    }
+  }
+
+  void check_operand_counts() {
+    for (const auto& signal : asset_.signals) {
+      const std::size_t n = signal.operands.size();
+      const bool one = signal.op == SignalOp::linear;
+      const bool two = signal.op == SignalOp::ratio;
+      if ((one && n != 1) || (two && n != 2) || (!one && !two && n < 2)) {
+        problem("signal '" + signal.name + "' (" + std::string(signal_op_name(signal.op)) +
+                    ") takes " + (one ? "exactly 1 operand" : two ? "exactly 2 operands" : "2 or more operands") +
+                    ", not " + std::to_string(n),
+                signal.where);
+      }
+    }
+  }
+
+  // Resolves a signal reference: an input, a derived signal, or "<estimator>.<output>".
+  std::optional<GraphNode> resolve_signal(const std::string& ref, const Where& where) {
+    auto dot = ref.find('.');
+    const std::string head = ref.substr(0, dot);
+    auto it = names_.find(head);
+    if (it == names_.end()) {
+      problem("'" + ref + "' names no input, signal or estimator of asset '" + asset_.name + "'",
+              where);
+      return std::nullopt;
+    }
+    const GraphNode node = it->second;
+    if (dot == std::string::npos) {
+      if (node.kind == GraphNode::Kind::estimator) {
+        problem("'" + ref + "' is an estimator; name one of its outputs, e.g. '" + ref + "." +
+                    std::string(estimator_outputs(asset_.estimators[node.index].kind)[0]) + "'",
+                where);
+        return std::nullopt;
+      }
+      return node;
+    }
+    if (node.kind != GraphNode::Kind::estimator) {
+      problem("'" + head + "' is not an estimator, so '" + ref + "' names nothing", where);
+      return std::nullopt;
+    }
+    const std::string output = ref.substr(dot + 1);
+    const auto& kind = asset_.estimators[node.index].kind;
+    for (auto name : estimator_outputs(kind)) {
+      if (name == output) return node;
+    }
+    std::string valid;
+    for (auto name : estimator_outputs(kind)) valid += (valid.empty() ? "" : ", ") + std::string(name);
+    problem("estimator '" + head + "' (" + std::string(estimator_kind_name(kind)) +
+                ") has no output '" + output + "'; it has: " + valid,
+            where);
+    return std::nullopt;
+  }
+
+  std::vector<std::string> reads(GraphNode node) const {
+    if (node.kind == GraphNode::Kind::signal) return asset_.signals[node.index].operands;
+    return estimator_inputs(asset_.estimators[node.index].kind);
+  }
+
+  const Where& where_of(GraphNode node) const {
+    return node.kind == GraphNode::Kind::signal ? asset_.signals[node.index].where
+                                                : asset_.estimators[node.index].where;
+  }
+
+  const std::string& name_of(GraphNode node) const {
+    return node.kind == GraphNode::Kind::signal ? asset_.signals[node.index].name
+                                                : asset_.estimators[node.index].name;
+  }
+
+  void visit(GraphNode node) {
+    if (node.kind == GraphNode::Kind::input) return;
+    Mark& mark = marks_[static_cast<int>(node.kind)][node.index];
+    if (mark == Mark::done) return;
+    if (mark == Mark::in_progress) {
+      problem("'" + name_of(node) + "' depends on itself through a cycle", where_of(node));
+      return;
+    }
+    mark = Mark::in_progress;
+    for (const auto& ref : reads(node)) {
+      if (auto dep = resolve_signal(ref, where_of(node))) visit(*dep);
+    }
+    marks_[static_cast<int>(node.kind)][node.index] = Mark::done;
+    graph_.order.push_back(node);
+  }
+
+  // A check names either a signal (limits) or an estimator of a fitting kind.
+  void check_checks() {
+    for (const auto& check : asset_.checks) {
+      std::visit(
+          core::Overloaded{
+              [&](const LimitCheckSpec& c) { resolve_signal(c.of, check.where); },
+              [&](const StatisticalCheckSpec& c) {
+                require_estimator(check, c.estimator, {"cusum", "ewma_chart"});
+              },
+              [&](const TimeToLimitCheckSpec& c) {
+                require_estimator(check, c.estimator, {"trend"});
+              },
+          },
+          check.kind);
+    }
+  }
+
+  void require_estimator(const CheckSpec& check, const std::string& name,
+                         std::initializer_list<std::string_view> kinds) {
+    auto it = names_.find(name);
+    if (it == names_.end() || it->second.kind != GraphNode::Kind::estimator) {
+      problem("check '" + check.name + "' names estimator '" + name + "', which asset '" +
+                  asset_.name + "' does not define",
+              check.where);
+      return;
+    }
+    const auto kind = estimator_kind_name(asset_.estimators[it->second.index].kind);
+    std::string wanted;
+    for (auto k : kinds) {
+      if (k == kind) return;
+      wanted += (wanted.empty() ? "" : " or ") + std::string(k);
+    }
+    problem("check '" + check.name + "' needs a " + wanted + " estimator, but '" + name +
+                "' is a " + std::string(kind),
+            check.where);
+  }
+
+  const AssetSpec& asset_;
+  AssetGraph graph_;
+  std::map<std::string, GraphNode> names_;
+  std::array<std::vector<Mark>, 3> marks_;
+};
+
+}  // namespace
+
+AssetGraph analyse_asset(const AssetSpec& asset) { return Analyser(asset).run(); }
+
+std::string_view signal_op_name(SignalOp op) {
+  switch (op) {
+    case SignalOp::linear:
+      return "linear";
+    case SignalOp::sum:
+      return "sum";
+    case SignalOp::difference:
+      return "difference";
+    case SignalOp::product:
+      return "product";
+    case SignalOp::ratio:
+      return "ratio";
+  }
+  return "unknown";
+}
+
+std::string_view estimator_kind_name(const EstimatorKind& kind) {
+  return std::visit(core::Overloaded{
+                        [](const EwmaSpec&) { return std::string_view("ewma"); },
+                        [](const CusumSpec&) { return std::string_view("cusum"); },
+                        [](const EwmaChartSpec&) { return std::string_view("ewma_chart"); },
+                        [](const RlsSpec&) { return std::string_view("rls"); },
+                        [](const TrendSpec&) { return std::string_view("trend"); },
+                        [](const RateSpec&) { return std::string_view("rate"); },
+                    },
+                    kind);
+}
+
+std::span<const std::string_view> estimator_outputs(const EstimatorKind& kind) {
+  return std::visit(core::Overloaded{
+                        [](const EwmaSpec&) { return std::span<const std::string_view>(kEwmaOutputs); },
+                        [](const CusumSpec&) { return std::span<const std::string_view>(kCusumOutputs); },
+                        [](const EwmaChartSpec&) { return std::span<const std::string_view>(kChartOutputs); },
+                        [](const RlsSpec&) { return std::span<const std::string_view>(kRlsOutputs); },
+                        [](const TrendSpec&) { return std::span<const std::string_view>(kTrendOutputs); },
+                        [](const RateSpec&) { return std::span<const std::string_view>(kRateOutputs); },
+                    },
+                    kind);
+}
+
+std::vector<std::string> estimator_inputs(const EstimatorKind& kind) {
+  return std::visit(core::Overloaded{
+                        [](const RlsSpec& s) {
+                          std::vector<std::string> all{s.target};
+                          all.insert(all.end(), s.regressors.begin(), s.regressors.end());
+                          return all;
+                        },
+                        [](const auto& s) { return std::vector<std::string>{s.of}; },
+                    },
+                    kind);
+}
+
+}  // namespace bw::engine

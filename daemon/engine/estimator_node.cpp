@@ -1,0 +1,224 @@
+#include "core/overloaded.h"
+#include "engine/estimator_node.h"
+
+#include <cassert>
+#include <cmath>
+#include <cstdio>
+#include <vector>
+
+#include "core/cusum.h"
+#include "core/ewma.h"
+#include "core/ewma_chart.h"
+#include "core/rate_of_change.h"
+#include "core/rls.h"
+#include "engine/baseline.h"
+
+namespace bw::engine {
+namespace {
+
+constexpr double kSecondsPerHour = 3600.0;
+
+std::string format_figure(const char* pattern, double a, double b) {
+  char text[96];
+  std::snprintf(text, sizeof text, pattern, a, b);
+  return text;
+}
+
+class EwmaNode final : public EstimatorNode {
+ public:
+  explicit EwmaNode(const EwmaSpec& spec) : ewma_(spec.time_constant_s) {}
+  bool update(std::span<const double> in, core::SensorTime t, std::span<double> out) override {
+    ewma_.update(in[0], t);
+    out[0] = ewma_.mean();
+    out[1] = ewma_.stddev();
+    return true;
+  }
+
+ private:
+  core::Ewma ewma_;
+};
+
+class CusumNode final : public EstimatorNode {
+ public:
+  explicit CusumNode(const CusumSpec& spec)
+      : baseline_(spec.baseline),
+        cusum_(core::CusumParams{.k = spec.k,
+                                 .h = spec.h,
+                                 .head_start = spec.head_start,
+                                 .restart_after_signal = spec.restart_after_signal,
+                                 .max_sum = spec.max_sum},
+               0.0, 1.0),
+        h_(spec.h) {}
+
+  bool update(std::span<const double> in, core::SensorTime t, std::span<double> out) override {
+    if (!baseline_.ready()) {
+      if (!baseline_.observe(in[0], t)) return false;
+      cusum_.set_baseline(baseline_.target(), baseline_.sigma());
+      return false;  // the learning samples are not judged against themselves
+    }
+    const auto step = cusum_.update(in[0], t);
+    if (!step.accepted) return false;
+    signal_ = step.signal != 0 ? step.signal : (step.upper > h_ ? 1 : step.lower > h_ ? -1 : 0);
+    out[0] = step.upper;
+    out[1] = step.lower;
+    return true;
+  }
+  int signal() const override { return signal_; }
+  std::string describe_signal() const override {
+    const double sum = signal_ >= 0 ? cusum_.upper() : cusum_.lower();
+    return format_figure(signal_ >= 0 ? "upper CUSUM %.2f sigma (limit %.2f)"
+                                      : "lower CUSUM %.2f sigma (limit %.2f)",
+                         sum, h_) +
+           format_figure("; baseline %.4g, sigma %.4g", baseline_.target(), baseline_.sigma());
+  }
+
+ private:
+  BaselineLearner baseline_;
+  core::Cusum cusum_;
+  double h_;
+  int signal_ = 0;
+};
+
+class EwmaChartNode final : public EstimatorNode {
+ public:
+  explicit EwmaChartNode(const EwmaChartSpec& spec)
+      : baseline_(spec.baseline),
+        chart_(core::EwmaChartParams{.lambda = spec.lambda,
+                                     .nominal_interval_s = spec.nominal_interval_s,
+                                     .width = spec.width,
+                                     .time_varying_limits = spec.time_varying_limits},
+               0.0, 1.0) {}
+
+  bool update(std::span<const double> in, core::SensorTime t, std::span<double> out) override {
+    if (!baseline_.ready()) {
+      if (!baseline_.observe(in[0], t)) return false;
+      chart_.set_baseline(baseline_.target(), baseline_.sigma());
+      return false;
+    }
+    const auto point = chart_.update(in[0], t);
+    if (!point.accepted) return false;
+    last_ = point;
+    out[0] = last_.statistic;
+    out[1] = last_.upper;
+    out[2] = last_.lower;
+    return true;
+  }
+  int signal() const override { return last_.signal; }
+  std::string describe_signal() const override {
+    return format_figure("EWMA %.4g outside %.4g", last_.statistic,
+                         last_.signal >= 0 ? last_.upper : last_.lower) +
+           format_figure(" (baseline %.4g, sigma %.4g)", baseline_.target(), baseline_.sigma());
+  }
+
+ private:
+  BaselineLearner baseline_;
+  core::EwmaChart chart_;
+  core::EwmaChartResult last_{};
+};
+
+class RlsNode final : public EstimatorNode {
+ public:
+  explicit RlsNode(const RlsSpec& spec)
+      : rls_(core::RlsParams{.regressors = spec.regressors.size() + (spec.intercept ? 1 : 0),
+                             .forgetting = spec.forgetting,
+                             .nominal_interval_s = spec.nominal_interval_s,
+                             .initial_covariance = spec.initial_covariance,
+                             .max_covariance_trace = spec.max_covariance_trace,
+                             .residual_time_constant_s = spec.residual_time_constant_s}),
+        intercept_(spec.intercept),
+        learn_s_(spec.learn_s),
+        x_(spec.regressors.size() + (spec.intercept ? 1 : 0)) {}
+
+  bool update(std::span<const double> in, core::SensorTime t, std::span<double> out) override {
+    if (!first_) first_ = t;
+    std::size_t j = 0;
+    if (intercept_) x_[j++] = 1.0;
+    for (std::size_t i = 1; i < in.size(); ++i) x_[j++] = in[i];
+    if (learn_s_ > 0 && core::seconds_between(*first_, t) >= learn_s_) rls_.freeze(true);
+    const auto step = rls_.update(x_, in[0], t);
+    if (!step.accepted) return false;
+    out[0] = step.prediction;
+    out[1] = step.residual;
+    out[2] = step.prediction != 0 ? 100.0 * step.residual / step.prediction : 0.0;
+    return true;
+  }
+
+ private:
+  core::Rls rls_;
+  bool intercept_;
+  double learn_s_;
+  std::vector<double> x_;  // regressor buffer, sized once
+  std::optional<core::SensorTime> first_;
+};
+
+// Trends and rates speak only after one time constant of data: a line fitted to the first few
+// samples is too confident about where it is heading.
+class WarmUp {
+ public:
+  explicit WarmUp(double seconds) : seconds_(seconds) {}
+  bool over(core::SensorTime t) {
+    if (!first_) first_ = t;
+    return core::seconds_between(*first_, t) >= seconds_;
+  }
+
+ private:
+  double seconds_;
+  std::optional<core::SensorTime> first_;
+};
+
+class TrendNode final : public EstimatorNode {
+ public:
+  explicit TrendNode(const TrendSpec& spec)
+      : trend_(spec.time_constant_s), warm_up_(spec.time_constant_s) {}
+  bool update(std::span<const double> in, core::SensorTime t, std::span<double> out) override {
+    trend_.update(in[0], t);
+    ready_ = warm_up_.over(t) && trend_.primed();
+    if (!ready_) return false;
+    out[0] = trend_.level_at(t);
+    out[1] = trend_.slope_per_second() * kSecondsPerHour;
+    return true;
+  }
+  std::optional<core::TimeToLimit> time_to_limit(double limit, core::LimitSide side,
+                                                 core::SensorTime now) const override {
+    if (!ready_) return std::nullopt;
+    return trend_.time_to_limit(limit, now, side);
+  }
+
+ private:
+  core::LinearTrend trend_;
+  WarmUp warm_up_;
+  bool ready_ = false;
+};
+
+class RateNode final : public EstimatorNode {
+ public:
+  explicit RateNode(const RateSpec& spec)
+      : rate_(spec.time_constant_s), warm_up_(spec.time_constant_s) {}
+  bool update(std::span<const double> in, core::SensorTime t, std::span<double> out) override {
+    rate_.update(in[0], t);
+    if (!warm_up_.over(t) || !rate_.primed()) return false;
+    out[0] = rate_.per_hour();
+    return true;
+  }
+
+ private:
+  core::RateOfChange rate_;
+  WarmUp warm_up_;
+};
+
+}  // namespace
+
+std::unique_ptr<EstimatorNode> make_estimator_node(const EstimatorKind& spec) {
+  return std::visit(
+      core::Overloaded{
+          [](const EwmaSpec& s) -> std::unique_ptr<EstimatorNode> { return std::make_unique<EwmaNode>(s); },
+          [](const CusumSpec& s) -> std::unique_ptr<EstimatorNode> { return std::make_unique<CusumNode>(s); },
+          [](const EwmaChartSpec& s) -> std::unique_ptr<EstimatorNode> { return std::make_unique<EwmaChartNode>(s); },
+          [](const RlsSpec& s) -> std::unique_ptr<EstimatorNode> { return std::make_unique<RlsNode>(s); },
+          [](const TrendSpec& s) -> std::unique_ptr<EstimatorNode> { return std::make_unique<TrendNode>(s); },
+          [](const RateSpec& s) -> std::unique_ptr<EstimatorNode> { return std::make_unique<RateNode>(s); },
+      },
+      spec);
+}
+
+}  // namespace bw::engine

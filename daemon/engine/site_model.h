@@ -1,0 +1,190 @@
+// The compiled site: plain structs that the configuration loader builds and the engine consumes.
+//
+// A rule template declares an asset class (inputs, derived signals, estimators, checks, with
+// parameters); a site file instantiates templates for its assets. The loader resolves every
+// parameter to a number and every tag binding, so the structs below hold only concrete values.
+// Nothing here depends on YAML: a test can build a SiteSpec by hand.
+//
+// Names used for cross references inside one asset:
+//   - an input role ("level"), a derived signal name ("volume"), or an estimator output written
+//     "<estimator>.<output>" (for example "pump_model.residual_percent"; see kEstimatorOutputs)
+//     are all "signals" and may feed estimators, other derived signals and limit checks;
+//   - statistical and time-to-limit checks name an estimator directly.
+// Invariants established by the loader with engine/asset_graph.h (the engine asserts them):
+// names are unique within an asset across inputs, signals and estimators; every reference
+// resolves to a node of the right kind; the graph has no cycle; every required input is bound.
+// Signals and estimators may be listed in any order: the engine evaluates them in dependency
+// order.
+#pragma once
+
+#include <cstdint>
+#include <limits>
+#include <optional>
+#include <string>
+#include <variant>
+#include <vector>
+
+namespace bw::engine {
+
+// Where a definition came from, so that every message can point at a file and line.
+struct Where {
+  std::string file;
+  int line = 0;    // 1-based; 0 when unknown (built in code)
+  int column = 0;  // 1-based
+};
+
+// Alert priority. Stored and transmitted by name; numeric values are ordinal only.
+enum class Priority : std::uint8_t { low = 1, medium = 2, high = 3, urgent = 4 };
+
+struct InputSpec {
+  std::string role;  // name inside the template, e.g. "level"
+  std::string unit;  // engineering unit, e.g. "ft"
+  std::string tag;   // bound tag name; empty when the input is optional and not bound
+  bool required = true;
+  double expected_interval_s = 0;  // nominal sampling interval; 0 = not declared
+  std::optional<double> range_low;   // instrument range, engineering units
+  std::optional<double> range_high;
+  Where where;
+};
+
+// Derived signal operations. Operands are signal names; values are sample-and-hold.
+enum class SignalOp : std::uint8_t {
+  linear,      // gain * a + offset
+  sum,         // a + b + ...
+  difference,  // a - b
+  product,     // a * b * ...
+  ratio,       // a / b^exponent (undefined when b <= 0 and exponent is not 1)
+};
+
+struct SignalSpec {
+  std::string name;
+  std::string unit;
+  SignalOp op = SignalOp::linear;
+  std::vector<std::string> operands;
+  double gain = 1.0;
+  double offset = 0.0;
+  double exponent = 1.0;
+  Where where;
+};
+
+// Reference level and spread for a statistical estimator. A value not given is learned from the
+// first `learn_s` seconds of data (mean and standard deviation), then held.
+struct BaselineSpec {
+  std::optional<double> target;
+  std::optional<double> sigma;
+  double learn_s = 0;
+};
+
+struct EwmaSpec {  // exponentially weighted mean and variance
+  std::string of;
+  double time_constant_s = 0;
+};
+
+struct CusumSpec {  // two-sided tabular CUSUM (Page's test) on standardised values
+  std::string of;
+  double k = 0.5;           // reference value, sigma units
+  double h = 5.0;           // decision interval, sigma units
+  double head_start = 0.0;  // fast initial response, sigma units (0 = none; h/2 is usual)
+  bool restart_after_signal = false;  // true: sums restart at head_start after each signal
+  double max_sum = 0.0;     // clamp on each sum, sigma units (0 = no clamp)
+  BaselineSpec baseline;
+};
+
+struct EwmaChartSpec {  // EWMA control statistic with L-sigma limits
+  std::string of;
+  double lambda = 0.1;             // weight per nominal interval
+  double nominal_interval_s = 1;   // spacing that lambda refers to
+  double width = 2.814;            // L, in units of the EWMA statistic's sigma
+  bool time_varying_limits = true;
+  BaselineSpec baseline;
+};
+
+struct RlsSpec {  // recursive least squares of `target` on `regressors`
+  std::string target;
+  std::vector<std::string> regressors;
+  bool intercept = true;
+  double forgetting = 1.0;          // per nominal interval; 1 = none
+  double nominal_interval_s = 1;
+  double learn_s = 0;               // freeze the coefficients after this long; 0 = never
+  double initial_covariance = 1e4;  // P0 = initial_covariance * I
+  double max_covariance_trace = 1e8;
+  double residual_time_constant_s = 3600;  // for the residual variance estimate
+};
+
+struct TrendSpec {  // exponentially weighted linear trend, time-to-limit
+  std::string of;
+  double time_constant_s = 0;  // 0 = no forgetting (ordinary least squares)
+};
+
+struct RateSpec {  // smoothed rate of change
+  std::string of;
+  double time_constant_s = 0;
+};
+
+using EstimatorKind =
+    std::variant<EwmaSpec, CusumSpec, EwmaChartSpec, RlsSpec, TrendSpec, RateSpec>;
+
+struct EstimatorSpec {
+  std::string name;
+  EstimatorKind kind;
+  Where where;
+};
+
+// Outputs that each estimator kind publishes as signals "<estimator>.<output>".
+//   ewma:       mean, stddev
+//   cusum:      upper, lower            (sigma units)
+//   ewma_chart: statistic, upper_limit, lower_limit
+//   rls:        prediction, residual, residual_percent
+//   trend:      level, slope_per_hour
+//   rate:       per_hour
+// (The engine owns the table; this comment documents the contract.)
+
+enum class LimitDirection : std::uint8_t { high, low };
+
+struct LimitCheckSpec {
+  std::string of;  // a signal
+  LimitDirection direction = LimitDirection::high;
+  double limit = 0;
+  double deadband = 0;  // engineering units; the alert clears only beyond limit -/+ deadband
+};
+
+struct StatisticalCheckSpec {  // raises when a CUSUM or EWMA chart signals
+  std::string estimator;
+};
+
+struct TimeToLimitCheckSpec {  // raises when a trend will cross `limit` within `lead_time_s`
+  std::string estimator;
+  LimitDirection direction = LimitDirection::high;  // high: rising toward it; low: falling
+  double limit = 0;
+  double lead_time_s = 0;
+};
+
+using CheckKind = std::variant<LimitCheckSpec, StatisticalCheckSpec, TimeToLimitCheckSpec>;
+
+struct CheckSpec {
+  std::string name;
+  CheckKind kind;
+  Priority priority = Priority::medium;
+  std::string message;  // plain words for the crew; the engine appends figures
+  Where where;
+};
+
+struct AssetSpec {
+  std::string name;
+  std::string template_name;
+  std::string description;
+  std::vector<InputSpec> inputs;
+  std::vector<SignalSpec> signals;
+  std::vector<EstimatorSpec> estimators;
+  std::vector<CheckSpec> checks;
+  Where where;
+};
+
+struct SiteSpec {
+  std::string name;
+  std::string time_zone;  // IANA name, e.g. "America/Chicago"
+  std::vector<AssetSpec> assets;
+  std::string file;  // the site file it was loaded from
+};
+
+}  // namespace bw::engine

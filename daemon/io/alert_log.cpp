@@ -1,0 +1,85 @@
+#include "io/alert_log.h"
+
+#include <cerrno>
+#include <cstring>
+#include <memory>
+
+#include "io/json_text.h"
+
+namespace bw::io {
+
+std::string alert_to_json(const engine::AlertTransition& t) {
+  std::string out;
+  out.reserve(256);
+  auto field = [&out](std::string_view name) {
+    out += out.empty() ? "{" : ",";
+    append_json_string(out, name);
+    out.push_back(':');
+  };
+  field("time");
+  append_json_string(out, format_utc(t.time));
+  field("site");
+  append_json_string(out, t.site);
+  field("asset");
+  append_json_string(out, t.asset);
+  field("check");
+  append_json_string(out, t.check);
+  field("event");
+  append_json_string(out, engine::to_string(t.event));
+  field("priority");
+  append_json_string(out, engine::to_string(t.priority));
+  field("value");
+  append_json_number(out, t.value);
+  field("unit");
+  append_json_string(out, t.unit);
+  field("tag");
+  append_json_string(out, t.tag);
+  field("message");
+  append_json_string(out, t.message);
+  if (t.forecast) {
+    field("forecast");
+    out += "{\"crossing\":";
+    append_json_string(out, format_utc(t.forecast->crossing));
+    out += ",\"crossing_early\":";
+    append_json_string(out, format_utc(t.forecast->crossing_early));
+    out += ",\"crossing_late\":";
+    if (t.forecast->crossing_late) {
+      append_json_string(out, format_utc(*t.forecast->crossing_late));
+    } else {
+      out += "null";
+    }
+    out += ",\"limit\":";
+    append_json_number(out, t.forecast->limit);
+    out.push_back('}');
+  }
+  out.push_back('}');
+  return out;
+}
+
+Result<std::unique_ptr<AlertLog>> AlertLog::open(const std::filesystem::path& path) {
+  if (path == "-") return std::unique_ptr<AlertLog>(new AlertLog(stdout, false));
+  std::FILE* file = std::fopen(path.c_str(), "w");
+  if (file == nullptr) {
+    return Error{"cannot write alerts to " + path.string() + ": " + std::strerror(errno)};
+  }
+  return std::unique_ptr<AlertLog>(new AlertLog(file, true));
+}
+
+AlertLog::~AlertLog() {
+  flush();
+  if (owned_) std::fclose(file_);
+}
+
+void AlertLog::on_transition(const engine::AlertTransition& transition) {
+  line_ = alert_to_json(transition);
+  line_.push_back('\n');
+  if (std::fwrite(line_.data(), 1, line_.size(), file_) != line_.size()) ok_ = false;
+  ++written_;
+}
+
+bool AlertLog::flush() {
+  if (std::fflush(file_) != 0) ok_ = false;
+  return ok_;
+}
+
+}  // namespace bw::io
