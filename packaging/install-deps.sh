@@ -6,7 +6,7 @@
 set -euo pipefail
 
 build_packages=(g++ cmake ninja-build pkg-config libboost-dev libspdlog-dev libyaml-cpp-dev
-  libpaho-mqttpp-dev libhowardhinnant-date-dev tzdata)
+  libpaho-mqttpp-dev libhowardhinnant-date-dev libsqlite3-dev tzdata)
 test_packages=(googletest libgtest-dev libgmock-dev libbenchmark-dev python3 python3-numpy
   python3-statsmodels r-cran-spc)
 

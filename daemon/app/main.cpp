@@ -14,11 +14,17 @@ verbs:
   check SITE.yaml [--rules DIR]...
         validate a site file and its rule templates; print the compiled asset graph
   replay --config SITE.yaml --input HISTORY.csv [--alerts OUT.jsonl] [--strict]
-         [--ignore-column NAME]... [--rules DIR]...
-        run a history file through the engine and write every alert transition
+         [--ignore-column NAME]... [--rules DIR]... [--commands COMMANDS.csv]
+         [--notifications OUT.jsonl] [--state DIR [--checkpoint-every DURATION]]
+        run a history file through the engine and write every alert transition;
+        --commands applies the crew's commands at their times, --notifications writes
+        what the crews would be told (chattering and floods held back), --state keeps
+        (and resumes from) durable state in DIR
   demo [--dir DIR]
         write the built-in example site and an invented history to DIR (default: a new
         temporary folder) and replay it
+  state --dir DIR [--journal N]
+        show what a state store holds: position, checkpoints, the last N journal entries
   version
         print the version
 
@@ -38,6 +44,7 @@ int main(int argc, char** argv) {
   if (verb == "check") return bw::app::run_check(args);
   if (verb == "replay") return bw::app::run_replay(args);
   if (verb == "demo") return bw::app::run_demo(args);
+  if (verb == "state") return bw::app::run_state(args);
   if (verb == "version" || verb == "--version") {
     std::printf("brinewatch %s\n", bw::app::kVersion);
     return 0;

@@ -4,6 +4,8 @@
 #include <cassert>
 #include <cstdio>
 
+#include "io/json_text.h"
+
 namespace bw::app {
 namespace {
 
@@ -33,6 +35,22 @@ std::string format_replay_summary(const ReplayFigures& f) {
            (e.first_unknown_tags.size() == engine::Engine::kMaxListedUnknownTags ? ", ..." : "") +
            "\n";
   }
+  if (f.commands_run > 0 || f.skipped_commands > 0 || f.commands_after_end > 0) {
+    out += line("commands: %zu applied (%llu refused), %llu already applied before, %zu later "
+                "than the last sample (not applied)",
+                f.commands_run, static_cast<unsigned long long>(e.commands_refused),
+                static_cast<unsigned long long>(f.skipped_commands), f.commands_after_end);
+  }
+  if (!f.state.empty()) out += f.state;
+  if (f.skipped_samples > 0) {
+    out += line("  %llu samples at or before the saved position were skipped",
+                static_cast<unsigned long long>(f.skipped_samples));
+  }
+  if (f.out_of_time_order > 0) {
+    out += line("  warning: %llu samples were earlier than samples already applied; a resumed "
+                "replay needs rows in time order (sort the file by time)",
+                static_cast<unsigned long long>(f.out_of_time_order));
+  }
   out += line("alerts: %llu transitions written to %s",
               static_cast<unsigned long long>(e.transitions), f.alerts_destination.c_str());
   if (!f.tally->rows().empty()) {
@@ -51,11 +69,40 @@ std::string format_replay_summary(const ReplayFigures& f) {
                   static_cast<unsigned long long>(row.cleared));
     }
   }
+  if (!f.notifications_destination.empty()) {
+    out += line("notifications: %llu sent, %llu held back (chattering or flood), written to %s",
+                static_cast<unsigned long long>(f.notifications_sent),
+                static_cast<unsigned long long>(f.notifications_held),
+                f.notifications_destination.c_str());
+  }
   if (f.wall_seconds > 0) {
     out += line("time: %.2f s, %.2f million samples per second", f.wall_seconds,
                 static_cast<double>(e.samples) / f.wall_seconds / 1e6);
   }
   return out;
+}
+
+std::string describe_state_open(const StateKeeper::Opened& opened, const std::filesystem::path& dir) {
+  std::string out = "state: " + dir.string();
+  if (opened.store.moved_aside) {
+    out += ": the database was damaged (" + opened.store.problem + ") and moved to " +
+           opened.store.moved_aside->string() + "; started afresh";
+  } else if (opened.store.created) {
+    out += ": new";
+  } else {
+    out += ": resumed";
+    if (opened.position) out += " after " + io::format_utc(*opened.position);
+    out += ", " + std::to_string(opened.restore.restored.size()) + " parts restored";
+    if (!opened.restore.reset.empty()) {
+      std::string names;
+      for (const auto& scope : opened.restore.reset) names += (names.empty() ? "" : ", ") + scope;
+      out += ", reset because their definition changed: " + names;
+    }
+  }
+  if (opened.store.migrated_from > 0 && opened.store.migrated_from < opened.store.schema_version) {
+    out += " (schema upgraded from version " + std::to_string(opened.store.migrated_from) + ")";
+  }
+  return out + "\n";
 }
 
 }  // namespace bw::app

@@ -13,5 +13,6 @@ using Arguments = std::vector<std::string>;
 int run_check(const Arguments& args);
 int run_replay(const Arguments& args);
 int run_demo(const Arguments& args);
+int run_state(const Arguments& args);
 
 }  // namespace bw::app

@@ -63,13 +63,27 @@ bool validate(FieldReader& reader, const ConfigNode& map, const engine::CusumSpe
   return true;
 }
 
+bool validate(FieldReader& reader, const ConfigNode& map, const engine::LimitCheckSpec& spec,
+              std::string_view what) {
+  if (spec.deadband && spec.deadband_percent) {
+    reader.error(value_or_map(map, "deadband_percent"),
+                 std::string(what) +
+                     ": give the deadband either in engineering units ('deadband') or in percent "
+                     "of span ('deadband_percent'), not both");
+    return false;
+  }
+  return true;
+}
+
 // Reads one kind of a variant (estimator or check kind) from a mapping that also holds the
 // section's common keys `common`.
 template <class Variant, class Spec, std::size_t N>
 std::optional<Variant> read_kind(FieldReader& reader, const ConfigNode& map,
                                  const std::array<Key<Spec>, N>& keys, std::string_view what,
-                                 std::initializer_list<std::string_view> common) {
-  reader.check_keys(map, allowed_keys(keys, common), what);
+                                 const std::vector<std::string_view>& common) {
+  std::vector<std::string_view> allowed = allowed_keys(keys);
+  allowed.insert(allowed.end(), common.begin(), common.end());
+  reader.check_keys(map, allowed, what);
   Spec spec;
   if (!read_keys(reader, map, keys, spec, what) || !validate(reader, map, spec, what)) {
     return std::nullopt;
@@ -92,7 +106,8 @@ std::optional<Variant> read_kind_of(FieldReader& reader, const ConfigNode& map,
   if constexpr (std::is_same_v<Variant, engine::EstimatorKind>) {
     return read_kind<Variant>(reader, map, kKeys, what, {"kind"});
   } else {
-    return read_kind<Variant>(reader, map, kKeys, what, {"kind", "priority", "message"});
+    static const std::vector<std::string_view> common = allowed_keys(kCheckCommonKeys, {"kind"});
+    return read_kind<Variant>(reader, map, kKeys, what, common);
   }
 }
 
@@ -105,10 +120,15 @@ const std::array<EstimatorReader, 6> kEstimatorReaders{{
     {"rate", &read_kind_of<engine::EstimatorKind, kRateKeys>},
 }};
 
-const std::array<CheckReader, 3> kCheckReaders{{
+const std::array<CheckReader, 8> kCheckReaders{{
     {"limit", &read_kind_of<engine::CheckKind, kLimitCheckKeys>},
     {"statistical", &read_kind_of<engine::CheckKind, kStatisticalCheckKeys>},
     {"time_to_limit", &read_kind_of<engine::CheckKind, kTimeToLimitCheckKeys>},
+    {"rate", &read_kind_of<engine::CheckKind, kRateCheckKeys>},
+    {"stale", &read_kind_of<engine::CheckKind, kStaleCheckKeys>},
+    {"flatline", &read_kind_of<engine::CheckKind, kFlatlineCheckKeys>},
+    {"out_of_range", &read_kind_of<engine::CheckKind, kOutOfRangeCheckKeys>},
+    {"ne43", &read_kind_of<engine::CheckKind, kNe43CheckKeys>},
 }};
 
 // Finds the reader named by the mapping's `kind` key and runs it.

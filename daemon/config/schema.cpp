@@ -34,6 +34,30 @@ void read_baseline(FieldReader& reader, const ConfigNode& value, std::string_vie
   }
 }
 
+void read_suppression(FieldReader& reader, const ConfigNode& value, std::string_view what,
+                      std::optional<engine::SuppressionSpec>& out) {
+  if (!reader.expect_map(value, what)) return;
+  reader.check_keys(value, {"of", "below", "above"}, what);
+  const std::string label(what);
+  const ConfigNode* of = reader.require(value, "of", what);
+  const ConfigNode* below = value.find("below");
+  const ConfigNode* above = value.find("above");
+  if ((below == nullptr) == (above == nullptr)) {
+    reader.error(value, label + ": give exactly one of 'below' or 'above'");
+    return;
+  }
+  const ConfigNode& threshold_node = below != nullptr ? *below : *above;
+  auto signal = of != nullptr ? reader.text(*of, label + ": key 'of'") : std::nullopt;
+  auto threshold = reader.number(threshold_node,
+                                 label + ": key '" + (below != nullptr ? "below" : "above") + "'",
+                                 kAnyValue, false);
+  if (!signal || !threshold) return;
+  out = engine::SuppressionSpec{
+      .of = *signal,
+      .when = below != nullptr ? engine::LimitDirection::low : engine::LimitDirection::high,
+      .threshold = *threshold};
+}
+
 std::optional<std::pair<double, double>> read_range(FieldReader& reader, const ConfigNode& value,
                                                     std::string_view what) {
   if (!value.is_sequence() || value.items.size() != 2) {

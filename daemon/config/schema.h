@@ -12,7 +12,9 @@
 //   inputs:     {<role>: kInputKeys}
 //   signals:    {<name>: kSignalKeys}          op: linear, sum, difference, product, ratio
 //   estimators: {<name>: {kind, ...}}          kind: ewma, cusum, ewma_chart, rls, trend, rate
-//   checks:     {<name>: {kind, priority, message, ...}}   kind: limit, statistical, time_to_limit
+//   checks:     {<name>: {kind, priority, message, latching, suppressed_when, ...}}
+//               kind: limit, statistical, time_to_limit, rate, stale, flatline, out_of_range, ne43
+//               suppressed_when: {of: <signal>, below: <number>} or {of: <signal>, above: <number>}
 // Any numeric value in a template may name a parameter instead.
 // Site schema (see site_loader.h): site {name, time_zone}, rules [folders], assets {<name>:
 // {template, description, tags {role: tag}, parameters {name: value}}}.
@@ -41,11 +43,12 @@ struct RangeMembers {
 };
 
 template <class Spec>
-using Member =
-    std::variant<double Spec::*, bool Spec::*, std::string Spec::*,
-                 std::vector<std::string> Spec::*, std::optional<double> Spec::*,
-                 engine::BaselineSpec Spec::*, engine::Priority Spec::*,
-                 engine::LimitDirection Spec::*, engine::SignalOp Spec::*, RangeMembers<Spec>>;
+using Member = std::variant<double Spec::*, bool Spec::*, std::string Spec::*,
+                            std::vector<std::string> Spec::*, std::optional<double> Spec::*,
+                            engine::BaselineSpec Spec::*, engine::Priority Spec::*,
+                            engine::LimitDirection Spec::*, engine::SignalOp Spec::*,
+                            engine::Measurement Spec::*, engine::RateDirection Spec::*,
+                            std::optional<engine::SuppressionSpec> Spec::*, RangeMembers<Spec>>;
 
 template <class Spec>
 struct Key {
@@ -74,6 +77,23 @@ inline constexpr std::array<std::pair<std::string_view, engine::SignalOp>, 5> kS
     {"ratio", engine::SignalOp::ratio},
 }};
 
+inline constexpr std::array<std::pair<std::string_view, engine::RateDirection>, 2>
+    kRateDirectionNames{
+        {{"rising", engine::RateDirection::rising}, {"falling", engine::RateDirection::falling}}};
+// Measurement names; engine::measurement_name() gives the same names the other way round.
+inline constexpr std::array<std::pair<std::string_view, engine::Measurement>, 7> kMeasurementNames{{
+    {"level", engine::Measurement::level},
+    {"pressure", engine::Measurement::pressure},
+    {"flow", engine::Measurement::flow},
+    {"temperature", engine::Measurement::temperature},
+    {"differential_pressure", engine::Measurement::differential_pressure},
+    {"current", engine::Measurement::current},
+    {"other", engine::Measurement::other},
+}};
+
+inline constexpr Bounds kPercent{.min = 0.0, .max = 100.0};
+inline constexpr Bounds kAtLeastOne{.min = 1.0};
+
 std::string_view priority_name(engine::Priority priority);
 std::string_view direction_name(engine::LimitDirection direction);
 
@@ -97,12 +117,13 @@ inline constexpr std::array<Key<ParameterDecl>, 5> kParameterKeys{{
     {"max", &ParameterDecl::max},
 }};
 
-inline constexpr std::array<Key<engine::InputSpec>, 4> kInputKeys{{
+inline constexpr std::array<Key<engine::InputSpec>, 5> kInputKeys{{
     {"unit", &engine::InputSpec::unit, kAnyValue, false, true},
     {"required", &engine::InputSpec::required},
     {"expected_interval", &engine::InputSpec::expected_interval_s, kNonNegative, true},
     {"range", RangeMembers<engine::InputSpec>{&engine::InputSpec::range_low,
                                                &engine::InputSpec::range_high}},
+    {"measurement", &engine::InputSpec::measurement},
 }};
 
 inline constexpr std::array<Key<engine::SignalSpec>, 6> kSignalKeys{{
@@ -167,16 +188,33 @@ inline constexpr std::array<Key<engine::RateSpec>, 2> kRateKeys{{
 }};
 
 // Keys every check has besides `kind`.
-inline constexpr std::array<Key<engine::CheckSpec>, 2> kCheckCommonKeys{{
+inline constexpr std::array<Key<engine::CheckSpec>, 4> kCheckCommonKeys{{
     {"priority", &engine::CheckSpec::priority},
     {"message", &engine::CheckSpec::message, kAnyValue, false, true},
+    {"latching", &engine::CheckSpec::latching},
+    {"suppressed_when", &engine::CheckSpec::suppressed_when},
 }};
 
-inline constexpr std::array<Key<engine::LimitCheckSpec>, 4> kLimitCheckKeys{{
+// Unset deadband and delays take the defaults of the input's measurement type
+// (engine/check_settings.h); deadband and deadband_percent exclude each other.
+inline constexpr std::array<Key<engine::LimitCheckSpec>, 7> kLimitCheckKeys{{
     {"of", &engine::LimitCheckSpec::of, kAnyValue, false, true},
     {"direction", &engine::LimitCheckSpec::direction},
     {"limit", &engine::LimitCheckSpec::limit, kAnyValue, false, true},
     {"deadband", &engine::LimitCheckSpec::deadband, kNonNegative},
+    {"deadband_percent", &engine::LimitCheckSpec::deadband_percent, kPercent},
+    {"on_delay", &engine::LimitCheckSpec::on_delay_s, kNonNegative, true},
+    {"off_delay", &engine::LimitCheckSpec::off_delay_s, kNonNegative, true},
+}};
+
+inline constexpr std::array<Key<engine::RateCheckSpec>, 7> kRateCheckKeys{{
+    {"of", &engine::RateCheckSpec::of, kAnyValue, false, true},
+    {"direction", &engine::RateCheckSpec::direction},
+    {"limit", &engine::RateCheckSpec::limit, kPositive, false, true},
+    {"horizon", &engine::RateCheckSpec::horizon_s, kPositive, true, true},
+    {"deadband", &engine::RateCheckSpec::deadband, kNonNegative},
+    {"on_delay", &engine::RateCheckSpec::on_delay_s, kNonNegative, true},
+    {"off_delay", &engine::RateCheckSpec::off_delay_s, kNonNegative, true},
 }};
 
 inline constexpr std::array<Key<engine::StatisticalCheckSpec>, 1> kStatisticalCheckKeys{{
@@ -188,6 +226,26 @@ inline constexpr std::array<Key<engine::TimeToLimitCheckSpec>, 4> kTimeToLimitCh
     {"direction", &engine::TimeToLimitCheckSpec::direction},
     {"limit", &engine::TimeToLimitCheckSpec::limit, kAnyValue, false, true},
     {"lead_time", &engine::TimeToLimitCheckSpec::lead_time_s, kPositive, true, true},
+}};
+
+inline constexpr std::array<Key<engine::StaleCheckSpec>, 2> kStaleCheckKeys{{
+    {"of", &engine::StaleCheckSpec::of, kAnyValue, false, true},
+    {"factor", &engine::StaleCheckSpec::factor, kAtLeastOne},
+}};
+
+inline constexpr std::array<Key<engine::FlatlineCheckSpec>, 3> kFlatlineCheckKeys{{
+    {"of", &engine::FlatlineCheckSpec::of, kAnyValue, false, true},
+    {"tolerance", &engine::FlatlineCheckSpec::tolerance, kPositive, false, true},
+    {"window", &engine::FlatlineCheckSpec::window_s, kPositive, true, true},
+}};
+
+inline constexpr std::array<Key<engine::OutOfRangeCheckSpec>, 2> kOutOfRangeCheckKeys{{
+    {"of", &engine::OutOfRangeCheckSpec::of, kAnyValue, false, true},
+    {"margin", &engine::OutOfRangeCheckSpec::margin_percent, kPercent},
+}};
+
+inline constexpr std::array<Key<engine::Ne43CheckSpec>, 1> kNe43CheckKeys{{
+    {"of", &engine::Ne43CheckSpec::of, kAnyValue, false, true},
 }};
 
 inline constexpr std::array<Key<engine::SiteSpec>, 2> kSiteKeys{{
@@ -215,6 +273,10 @@ std::vector<std::string_view> allowed_keys(const std::array<Key<Spec>, N>& keys,
 // Reads a baseline mapping: target and sigma optional, learn required unless both are given.
 void read_baseline(FieldReader& reader, const ConfigNode& value, std::string_view what,
                    engine::BaselineSpec& out);
+
+// Reads "{of: <signal>, below: <number>}" or "{of: <signal>, above: <number>}".
+void read_suppression(FieldReader& reader, const ConfigNode& value, std::string_view what,
+                      std::optional<engine::SuppressionSpec>& out);
 
 // Reads "[low, high]" with low < high.
 std::optional<std::pair<double, double>> read_range(FieldReader& reader, const ConfigNode& value,
@@ -254,6 +316,15 @@ bool read_keys(FieldReader& reader, const ConfigNode& map, const std::array<Key<
             },
             [&](engine::SignalOp Spec::*m) {
               store(m, reader.choice<engine::SignalOp>(*value, what, kSignalOpNames));
+            },
+            [&](engine::Measurement Spec::*m) {
+              store(m, reader.choice<engine::Measurement>(*value, what, kMeasurementNames));
+            },
+            [&](engine::RateDirection Spec::*m) {
+              store(m, reader.choice<engine::RateDirection>(*value, what, kRateDirectionNames));
+            },
+            [&](std::optional<engine::SuppressionSpec> Spec::*m) {
+              read_suppression(reader, *value, what, out.*m);
             },
             [&](RangeMembers<Spec> r) {
               if (auto range = read_range(reader, *value, what)) {

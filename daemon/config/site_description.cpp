@@ -6,6 +6,7 @@
 #include "config/schema.h"
 #include "core/overloaded.h"
 #include "engine/asset_graph.h"
+#include "engine/check_settings.h"
 
 namespace bw::config {
 namespace {
@@ -103,27 +104,77 @@ std::string describe_estimator(const engine::EstimatorSpec& e) {
   return head + "; " + details;
 }
 
+std::string describe_limit(const engine::AssetSpec& asset, const engine::LimitCheckSpec& s) {
+  const std::string unit = unit_of(asset, s.of);
+  std::string out = "limit on " + s.of + ", " + std::string(direction_name(s.direction)) + " " +
+                    with_unit(s.limit, unit);
+  const auto settings = engine::limit_settings(asset, s);
+  if (!settings) return out;
+  out += " (deadband " + with_unit(settings->deadband, unit);
+  if (settings->on_delay_s > 0 || settings->off_delay_s > 0) {
+    out += ", on-delay " + format_duration(settings->on_delay_s) + ", off-delay " +
+           format_duration(settings->off_delay_s);
+  }
+  return out + ")";
+}
+
 std::string describe_check(const engine::AssetSpec& asset, const engine::CheckSpec& c) {
   const std::string body = std::visit(
       Overloaded{
-          [&](const engine::LimitCheckSpec& s) {
-            const std::string unit = unit_of(asset, s.of);
-            return "limit on " + s.of + ", " + std::string(direction_name(s.direction)) + " " +
-                   with_unit(s.limit, unit) + " (deadband " + with_unit(s.deadband, unit) + ")";
+          [&](const engine::LimitCheckSpec& s) { return describe_limit(asset, s); },
+          [&](const engine::RateCheckSpec& s) {
+            const std::string unit = unit_of(asset, s.of) + "/h";
+            return "rate of change of " + s.of + ", " +
+                   (s.direction == engine::RateDirection::rising ? "rising faster than "
+                                                                 : "falling faster than ") +
+                   with_unit(s.limit, unit) + " over " + format_duration(s.horizon_s) +
+                   " (deadband " + with_unit(s.deadband, unit) + ", on-delay " +
+                   format_duration(s.on_delay_s) + ", off-delay " + format_duration(s.off_delay_s) +
+                   ")";
           },
           [](const engine::StatisticalCheckSpec& s) {
             return "statistical, when estimator " + s.estimator + " signals";
           },
           [&](const engine::TimeToLimitCheckSpec& s) {
             return "time to limit, when trend " + s.estimator +
-                   (s.direction == engine::LimitDirection::low ? " will fall to " : " will reach ") +
+                   (s.direction == engine::LimitDirection::low ? " will fall to "
+                                                               : " will reach ") +
                    with_unit(s.limit, unit_of(asset, s.estimator + ".level")) + " within " +
                    format_duration(s.lead_time_s);
           },
+          [&](const engine::StaleCheckSpec& s) {
+            const auto* input = engine::find_input(asset, s.of);
+            const double interval = input != nullptr ? input->expected_interval_s : 0;
+            return "stale, when " + s.of + " has no sample for " +
+                   format_duration(s.factor * interval) + " (" + format_number(s.factor) + " x " +
+                   format_duration(interval) + ")";
+          },
+          [&](const engine::FlatlineCheckSpec& s) {
+            return "flatline, when " + s.of + " moves less than " +
+                   with_unit(s.tolerance, unit_of(asset, s.of)) + " for " +
+                   format_duration(s.window_s);
+          },
+          [](const engine::OutOfRangeCheckSpec& s) {
+            return "out of range, when " + s.of + " leaves its range" +
+                   (s.margin_percent > 0
+                        ? " by more than " + format_number(s.margin_percent) + " % of span"
+                        : std::string());
+          },
+          [](const engine::Ne43CheckSpec& s) {
+            return "NE 43 failure signal on " + s.of + " (at or below 3.6 mA, at or above 21 mA)";
+          },
       },
       c.kind);
-  return "check " + c.name + ": " + body + ", priority " + std::string(priority_name(c.priority)) +
-         ": \"" + c.message + "\"";
+  std::string out =
+      "check " + c.name + ": " + body + ", priority " + std::string(priority_name(c.priority));
+  if (c.latching) out += ", latching";
+  if (c.suppressed_when) {
+    const auto& w = *c.suppressed_when;
+    out += ", suppressed while " + w.of +
+           (w.when == engine::LimitDirection::low ? " below " : " above ") +
+           with_unit(w.threshold, unit_of(asset, w.of));
+  }
+  return out + ": \"" + c.message + "\"";
 }
 
 void describe_asset(std::ostringstream& out, const engine::AssetSpec& asset) {

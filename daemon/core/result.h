@@ -49,4 +49,8 @@ class [[nodiscard]] Result {
   std::variant<T, Error> state_;
 };
 
+// For operations that return nothing but may fail.
+struct Ok {};
+using Status = Result<Ok>;
+
 }  // namespace bw

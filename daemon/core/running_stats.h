@@ -13,6 +13,20 @@ namespace bw::core {
 
 class RunningStats {
  public:
+  // Plain snapshot for checkpointing: restore(state()) continues bit-identically.
+  struct State {
+    std::uint64_t count = 0;
+    double mean = 0;
+    double sum_squares = 0;
+    bool operator==(const State&) const = default;
+  };
+  State state() const { return {count_, mean_, sum_squares_}; }
+  void restore(const State& s) {
+    count_ = s.count;
+    mean_ = s.mean;
+    sum_squares_ = s.sum_squares;
+  }
+
   void add(double value) {
     assert(std::isfinite(value));
     ++count_;

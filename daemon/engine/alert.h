@@ -11,14 +11,38 @@
 #include <string_view>
 
 #include "core/sensor_time.h"
+#include "engine/alert_lifecycle.h"
 #include "engine/site_model.h"
 
 namespace bw::engine {
 
-// Wire value (the JSON "event" field uses the names below): do not rename.
-enum class AlertEvent : std::uint8_t { raised, cleared };
+// What happened to an alert. Wire and disk value (the JSON "event" field and the journal use
+// the names of to_string()): do not rename or renumber; add at the end.
+enum class AlertEvent : std::uint8_t {
+  raised,                // the condition became active
+  cleared,               // the condition returned to normal
+  acknowledged,
+  shelved,
+  unshelved,
+  shelve_expired,
+  suppressed,            // suppressed by design (a configured condition holds)
+  unsuppressed,
+  removed_from_service,
+  returned_to_service,
+  command_refused,       // a command changed nothing; the message says why
+};
+
+// Why a transition happened. Wire and disk value: do not rename or renumber.
+enum class TransitionCause : std::uint8_t {
+  sample,         // a sample of `tag`
+  silence,        // time passed without a sample (stale tag)
+  command,        // a person's command (who, source, reason)
+  shelve_expiry,  // a shelve ran out
+  restore,        // state restored at start-up
+};
 
 std::string_view to_string(AlertEvent event);
+std::string_view to_string(TransitionCause cause);
 std::string_view to_string(Priority priority);
 
 // For checks that look ahead: when the trend is expected to reach the limit.
@@ -41,6 +65,12 @@ struct AlertTransition {
   std::string_view unit;
   std::string message;
   std::optional<Forecast> forecast;
+  AlertState from = AlertState::normal;
+  AlertState to = AlertState::normal;
+  TransitionCause cause = TransitionCause::sample;
+  std::string_view who;     // commands: the person
+  std::string_view reason;  // commands: free text
+  std::string_view source;  // commands: where it came from, e.g. "mqtt:client-7"
 };
 
 // Receives transitions in the order the engine produces them. Called on the engine's thread.

@@ -2,236 +2,352 @@
 
 #include <algorithm>
 #include <cassert>
+#include <chrono>
 #include <cmath>
 
 #include "core/overloaded.h"
-#include "engine/asset_graph.h"
+#include "engine/check_settings.h"
+#include "engine/threshold_condition.h"
 
 namespace bw::engine {
 namespace {
 
-// The unit of an estimator output, given the unit of the signal it watches.
-std::string output_unit(std::string_view output, const std::string& input_unit) {
-  if (output == "slope_per_hour" || output == "per_hour") return input_unit + "/h";
-  if (output == "residual_percent") return "%";
-  if (output == "upper" || output == "lower") return "sigma";
-  return input_unit;
+// Layout of save(); bump when it changes.
+constexpr std::uint8_t kStateVersion = 1;
+constexpr std::string_view kQualityMessage = "Bad quality from the instrument";
+
+core::Micros micros(double seconds) {
+  return std::chrono::duration_cast<core::Micros>(std::chrono::duration<double>(seconds));
 }
 
-double apply(SignalOp op, const SignalSpec& spec, const std::vector<double>& values,
-             const std::vector<std::size_t>& slots) {
-  double acc = values[slots[0]];
-  switch (op) {
-    case SignalOp::linear:
-      return spec.gain * acc + spec.offset;
-    case SignalOp::sum:
-      for (std::size_t i = 1; i < slots.size(); ++i) acc += values[slots[i]];
-      return acc;
-    case SignalOp::difference:
-      for (std::size_t i = 1; i < slots.size(); ++i) acc -= values[slots[i]];
-      return acc;
-    case SignalOp::product:
-      for (std::size_t i = 1; i < slots.size(); ++i) acc *= values[slots[i]];
-      return acc;
-    case SignalOp::ratio: {
-      const double denominator = values[slots[1]];
-      if (spec.exponent != 1.0 && denominator <= 0) return NAN;
-      return acc / std::pow(denominator, spec.exponent);
-    }
-  }
-  return NAN;
+std::string quality_words(Quality quality, double value) {
+  if (quality == Quality::bad) return "quality bad";
+  if (quality == Quality::uncertain) return "quality uncertain";
+  return std::isnan(value) ? "value is not a number" : "value is infinite";
+}
+
+void put_forecast(StateWriter& out, const std::optional<Forecast>& forecast) {
+  out.put_bool(forecast.has_value());
+  if (!forecast) return;
+  out.put_time(forecast->crossing);
+  out.put_time(forecast->crossing_early);
+  out.put_optional_time(forecast->crossing_late);
+  out.put_double(forecast->limit);
+}
+
+std::optional<Forecast> get_forecast(StateReader& in) {
+  if (!in.get_bool()) return std::nullopt;
+  Forecast forecast;
+  forecast.crossing = in.get_time();
+  forecast.crossing_early = in.get_time();
+  forecast.crossing_late = in.get_optional_time();
+  forecast.limit = in.get_double();
+  return forecast;
 }
 
 }  // namespace
 
 AssetEvaluator::AssetEvaluator(const AssetSpec& spec, std::string_view site_name)
-    : spec_(spec), site_name_(site_name) {
+    : spec_(spec), site_name_(site_name), signals_(spec) {
   compile();
-  build_plans();
-}
-
-std::size_t AssetEvaluator::slot_of(const std::string& name) const {
-  auto it = std::find(slot_names_.begin(), slot_names_.end(), name);
-  assert(it != slot_names_.end() && "analyse_asset() guarantees every reference resolves");
-  return static_cast<std::size_t>(it - slot_names_.begin());
 }
 
 void AssetEvaluator::compile() {
-  const AssetGraph graph = analyse_asset(spec_);
-  assert(graph.ok());
-  order_ = graph.order;
-  for (const auto& input : spec_.inputs) {
-    slot_names_.push_back(input.role);
-    slot_units_.push_back(input.unit);
-  }
-  // Name every slot first, so that steps can resolve references in any order.
-  for (const auto& signal : spec_.signals) {
-    slot_names_.push_back(signal.name);
-    slot_units_.push_back(signal.unit);
-  }
-  std::vector<std::size_t> estimator_first_slot(spec_.estimators.size());
-  for (std::size_t e = 0; e < spec_.estimators.size(); ++e) {
-    estimator_first_slot[e] = slot_names_.size();
-    for (auto output : estimator_outputs(spec_.estimators[e].kind)) {
-      slot_names_.push_back(spec_.estimators[e].name + "." + std::string(output));
-      slot_units_.emplace_back();  // filled below, once input units are known
-    }
-  }
-  std::size_t widest = 0;
-  for (const GraphNode& node : graph.order) {
-    if (node.kind == GraphNode::Kind::signal) {
-      const auto& s = spec_.signals[node.index];
-      SignalStep step{node.index, {}, slot_of(s.name)};
-      for (const auto& operand : s.operands) step.operand_slots.push_back(slot_of(operand));
-      signals_.push_back(std::move(step));
-    } else {
-      const auto& e = spec_.estimators[node.index];
-      EstimatorStep step{make_estimator_node(e.kind), {}, estimator_first_slot[node.index],
-                         estimator_outputs(e.kind).size()};
-      for (const auto& name : estimator_inputs(e.kind)) step.input_slots.push_back(slot_of(name));
-      const auto outputs = estimator_outputs(e.kind);
-      for (std::size_t o = 0; o < outputs.size(); ++o) {
-        slot_units_[step.first_output_slot + o] =
-            output_unit(outputs[o], slot_units_[step.input_slots[0]]);
+  inputs_.resize(spec_.inputs.size());
+  for (std::size_t i = 0; i < spec_.inputs.size(); ++i) {
+    const InputSpec& input = spec_.inputs[i];
+    if (input.tag.empty()) continue;
+    inputs_[i].quality_check = quality_check_name(input.role);
+    if (input.expected_interval_s <= 0) continue;
+    double factor = kDefaultStaleFactor;
+    for (const auto& check : spec_.checks) {
+      if (const auto* stale = std::get_if<StaleCheckSpec>(&check.kind);
+          stale && stale->of == input.role) {
+        factor = std::min(factor, stale->factor);
       }
-      widest = std::max(widest, step.input_slots.size());
-      estimators_.push_back(std::move(step));
     }
+    inputs_[i].silence = micros(factor * input.expected_interval_s);
   }
-  input_buffer_.resize(widest);
-  values_.assign(slot_names_.size(), 0.0);
-  has_value_.assign(slot_names_.size(), 0);
-  fresh_pass_.assign(slot_names_.size(), 0);
 
+  checks_.resize(spec_.checks.size());
   for (std::size_t c = 0; c < spec_.checks.size(); ++c) {
-    const auto& check = spec_.checks[c];
-    auto estimator_step = [&](const std::string& name) -> const EstimatorStep& {
-      auto it = std::find_if(spec_.estimators.begin(), spec_.estimators.end(),
-                             [&](const EstimatorSpec& e) { return e.name == name; });
-      const std::size_t first = estimator_first_slot[static_cast<std::size_t>(it - spec_.estimators.begin())];
-      return *std::find_if(estimators_.begin(), estimators_.end(),
-                           [&](const EstimatorStep& s) { return s.first_output_slot == first; });
-    };
+    const CheckSpec& check = spec_.checks[c];
+    CheckStep& step = checks_[c];
+    step.spec_index = c;
     std::size_t watched = 0;
-    std::size_t trigger = 0;
-    const EstimatorNode* node = nullptr;
-    std::visit(core::Overloaded{
-                   [&](const LimitCheckSpec& s) { watched = trigger = slot_of(s.of); },
-                   [&](const auto& s) {
-                     const EstimatorStep& step = estimator_step(s.estimator);
-                     watched = step.input_slots[0];
-                     trigger = step.first_output_slot;
-                     node = step.node.get();
-                   },
-               },
-               check.kind);
-    checks_.push_back({make_check_node(check.kind, {.value = &values_[watched],
-                                                    .unit = slot_units_[watched],
-                                                    .estimator = node}),
-                       c, trigger, watched});
+    CheckSources sources;
+    std::visit(
+        core::Overloaded{
+            [&](const LimitCheckSpec& s) { watched = step.trigger_slot = signals_.slot_of(s.of); },
+            [&](const RateCheckSpec& s) { watched = step.trigger_slot = signals_.slot_of(s.of); },
+            [&](const StatisticalCheckSpec& s) {
+              const auto ref = signals_.estimator(s.estimator);
+              step.trigger_slot = ref.first_output_slot;
+              watched = ref.watched_slot;
+              sources.estimator = ref.node;
+            },
+            [&](const TimeToLimitCheckSpec& s) {
+              const auto ref = signals_.estimator(s.estimator);
+              step.trigger_slot = ref.first_output_slot;
+              watched = ref.watched_slot;
+              sources.estimator = ref.node;
+            },
+            [&](const StaleCheckSpec& s) {
+              watched = step.trigger_slot = signals_.slot_of(s.of);
+              step.heard_input = watched;  // an input's slot is its index
+              sources.heard = &inputs_[watched].heard;
+            },
+            [&](const auto& s) { watched = step.trigger_slot = signals_.slot_of(s.of); },
+        },
+        check.kind);
+    sources.value = signals_.value_pointer(watched);
+    sources.unit = signals_.unit(watched);
+    step.unit = signals_.unit(watched);
+    if (std::holds_alternative<RateCheckSpec>(check.kind)) step.unit += "/h";
+    step.node = make_check_node(spec_, check, sources);
+    if (check.suppressed_when) step.suppression_slot = signals_.slot_of(check.suppressed_when->of);
   }
-}
 
-// For each input, the steps downstream of it (in evaluation order) and the checks they feed.
-void AssetEvaluator::build_plans() {
-  plans_.resize(spec_.inputs.size());
   check_plans_.resize(spec_.inputs.size());
-  for (std::size_t input = 0; input < spec_.inputs.size(); ++input) {
-    std::vector<std::uint8_t> reached(slot_names_.size(), 0);
-    reached[input] = 1;
-    std::size_t s = 0;
-    std::size_t e = 0;
-    // signals_ and estimators_ are each in graph order; walk them merged in that order.
-    for (const GraphNode& node : order_) {
-      if (node.kind == GraphNode::Kind::signal) {
-        const auto& step = signals_[s];
-        if (std::any_of(step.operand_slots.begin(), step.operand_slots.end(),
-                        [&](std::size_t slot) { return reached[slot]; })) {
-          reached[step.output_slot] = 1;
-          plans_[input].push_back({true, s});
-        }
-        ++s;
-      } else {
-        const auto& step = estimators_[e];
-        if (reached[step.input_slots[0]]) {
-          for (std::size_t o = 0; o < step.output_count; ++o) reached[step.first_output_slot + o] = 1;
-          plans_[input].push_back({false, e});
-        }
-        ++e;
-      }
-    }
+  for (std::size_t i = 0; i < spec_.inputs.size(); ++i) {
+    const auto reached = signals_.reached_from(i);
     for (std::size_t c = 0; c < checks_.size(); ++c) {
-      if (reached[checks_[c].trigger_slot]) check_plans_[input].push_back(c);
+      CheckStep& step = checks_[c];
+      if (!reached[step.trigger_slot]) continue;
+      if (step.node->held_by_bad_data()) step.inputs.push_back(i);
+      if (!step.heard_input) check_plans_[i].push_back(c);
+    }
+  }
+  for (CheckStep& step : checks_) {
+    const std::size_t first = step.heard_input      ? *step.heard_input
+                              : step.inputs.empty() ? spec_.inputs.size()
+                                                    : step.inputs.front();
+    if (first < spec_.inputs.size()) step.tag = spec_.inputs[first].tag;
+  }
+}
+
+std::vector<AssetEvaluator::CheckInfo> AssetEvaluator::checks() const {
+  std::vector<CheckInfo> out;
+  for (const auto& check : spec_.checks)
+    out.push_back({check.name, check.priority, check.latching});
+  for (const auto& input : inputs_) {
+    if (!input.quality_check.empty()) out.push_back({input.quality_check, Priority::low, false});
+  }
+  return out;
+}
+
+void AssetEvaluator::start_clock(core::SensorTime t) {
+  if (started_) return;
+  started_ = t;
+  for (auto& input : inputs_) input.heard = t;
+}
+
+bool AssetEvaluator::held(const CheckStep& check) const {
+  return std::any_of(check.inputs.begin(), check.inputs.end(),
+                     [&](std::size_t i) { return !inputs_[i].usable || inputs_[i].silent; });
+}
+
+void AssetEvaluator::hold_dependents(std::size_t input) {
+  for (auto& check : checks_) {
+    if (std::find(check.inputs.begin(), check.inputs.end(), input) != check.inputs.end()) {
+      check.node->cancel_pending();
     }
   }
 }
 
-void AssetEvaluator::compute_signal(const SignalStep& step, core::SensorTime) {
-  bool any_fresh = false;
-  for (std::size_t slot : step.operand_slots) {
-    if (!has_value_[slot]) return;
-    any_fresh = any_fresh || fresh(slot);
+void AssetEvaluator::on_sample(std::size_t input_index, double value, Quality quality,
+                               core::SensorTime t, std::string_view tag, ConditionSink& sink) {
+  assert(input_index < inputs_.size());
+  advance(t, sink);
+  InputState& input = inputs_[input_index];
+  input.heard = t;
+  input.silent = false;
+  const bool usable = quality == Quality::good && std::isfinite(value);
+  if (usable) {
+    signals_.set_input(input_index, value, t);
+  } else {
+    signals_.begin_pass();
   }
-  if (!any_fresh) return;
-  const double v = apply(spec_.signals[step.spec_index].op, spec_.signals[step.spec_index],
-                         values_, step.operand_slots);
-  if (!std::isfinite(v)) return;
-  values_[step.output_slot] = v;
-  has_value_[step.output_slot] = 1;
-  fresh_pass_[step.output_slot] = pass_;
-}
-
-void AssetEvaluator::update_estimator(EstimatorStep& step, core::SensorTime t) {
-  if (!fresh(step.input_slots[0])) return;
-  for (std::size_t i = 0; i < step.input_slots.size(); ++i) {
-    if (!has_value_[step.input_slots[i]]) return;
-    input_buffer_[i] = values_[step.input_slots[i]];
+  for (auto& check : checks_) {
+    if (check.heard_input != input_index) continue;
+    if (auto outcome = check.node->evaluate(t)) publish(check, std::move(*outcome), t, tag, sink);
   }
-  const std::span<const double> in(input_buffer_.data(), step.input_slots.size());
-  const std::span<double> out(&values_[step.first_output_slot], step.output_count);
-  if (!step.node->update(in, t, out)) return;
-  for (std::size_t o = 0; o < step.output_count; ++o) {
-    has_value_[step.first_output_slot + o] = 1;
-    fresh_pass_[step.first_output_slot + o] = pass_;
-  }
-}
-
-void AssetEvaluator::on_input(std::size_t input_index, double value, core::SensorTime t,
-                              std::string_view tag, AlertSink& sink) {
-  assert(input_index < spec_.inputs.size());
-  assert(std::isfinite(value));
-  ++pass_;
-  values_[input_index] = value;
-  has_value_[input_index] = 1;
-  fresh_pass_[input_index] = pass_;
-  for (const PlanEntry& entry : plans_[input_index]) {
-    if (entry.is_signal) {
-      compute_signal(signals_[entry.step], t);
-    } else {
-      update_estimator(estimators_[entry.step], t);
+  note_quality(input_index, usable, value, quality, t, sink);
+  // Suppression first, so that a check suppressed by this very sample does not report.
+  for (auto& check : checks_) {
+    if (check.suppression_slot && signals_.fresh(*check.suppression_slot)) {
+      update_suppression(check, t, tag, sink);
     }
   }
   for (std::size_t c : check_plans_[input_index]) {
     CheckStep& check = checks_[c];
-    if (!fresh(check.trigger_slot)) continue;
-    auto outcome = check.node->evaluate(t);
-    if (!outcome) continue;
-    const CheckSpec& spec = spec_.checks[check.spec_index];
-    AlertTransition transition{
-        .time = t,
-        .site = site_name_,
-        .asset = spec_.name,
-        .check = spec.name,
-        .tag = tag,
-        .event = outcome->event,
-        .priority = spec.priority,
-        .value = outcome->value,
-        .unit = slot_units_[check.watched_slot],
-        .message = spec.message.empty() ? outcome->detail : spec.message + ": " + outcome->detail,
-        .forecast = outcome->forecast,
-    };
-    sink.on_transition(transition);
+    if (!signals_.fresh(check.trigger_slot) || held(check)) continue;
+    if (auto outcome = check.node->evaluate(t)) publish(check, std::move(*outcome), t, tag, sink);
   }
+}
+
+void AssetEvaluator::advance(core::SensorTime now, ConditionSink& sink) {
+  start_clock(now);
+  for (;;) {
+    std::optional<core::SensorTime> earliest;
+    std::size_t index = 0;
+    bool is_input = false;
+    auto consider = [&](core::SensorTime due, std::size_t i, bool input) {
+      if (due <= now && (!earliest || due < *earliest)) {
+        earliest = due;
+        index = i;
+        is_input = input;
+      }
+    };
+    // Checks first: on a tie a delay runs out on data that were still fresh until that moment.
+    for (std::size_t c = 0; c < checks_.size(); ++c) {
+      if (held(checks_[c])) continue;
+      if (auto due = checks_[c].node->deadline()) consider(*due, c, false);
+    }
+    for (std::size_t i = 0; i < inputs_.size(); ++i) {
+      const InputState& input = inputs_[i];
+      if (input.silence.count() > 0 && !input.silent)
+        consider(input.heard + input.silence, i, true);
+    }
+    if (!earliest) return;
+    if (is_input) {
+      inputs_[index].silent = true;
+      hold_dependents(index);
+      continue;
+    }
+    CheckStep& check = checks_[index];
+    auto outcome = check.node->expire(*earliest);
+    assert(!check.node->deadline() || *check.node->deadline() > *earliest);
+    if (outcome) publish(check, std::move(*outcome), *earliest, check.tag, sink);
+  }
+}
+
+void AssetEvaluator::note_quality(std::size_t input_index, bool usable, double value,
+                                  Quality quality, core::SensorTime t, ConditionSink& sink) {
+  InputState& input = inputs_[input_index];
+  const bool was_usable = input.usable;
+  input.usable = usable;
+  if (was_usable && !usable) hold_dependents(input_index);
+  if (input.quality_check.empty() || input.quality_active == !usable) return;
+  input.quality_active = !usable;
+  const InputSpec& spec = spec_.inputs[input_index];
+  ConditionChange change;
+  change.kind = ConditionChange::Kind::condition;
+  change.active = !usable;
+  change.time = t;
+  change.check = input.quality_check;
+  change.priority = Priority::low;
+  change.message = kQualityMessage;
+  change.value = signals_.value(input_index);
+  change.unit = spec.unit;
+  change.tag = spec.tag;
+  change.detail = usable ? "good samples again" : quality_words(quality, value);
+  sink.on_change(spec_.name, change);
+}
+
+void AssetEvaluator::update_suppression(CheckStep& check, core::SensorTime t, std::string_view tag,
+                                        ConditionSink& sink) {
+  const CheckSpec& spec = spec_.checks[check.spec_index];
+  const SuppressionSpec& when = *spec.suppressed_when;
+  const std::size_t slot = *check.suppression_slot;
+  const double v = signals_.value(slot);
+  const bool below = when.when == LimitDirection::low;
+  const bool suppress = below ? v < when.threshold : v > when.threshold;
+  if (suppress == check.suppressed) return;
+  check.suppressed = suppress;
+  ConditionChange change;
+  change.kind = ConditionChange::Kind::suppression;
+  change.active = suppress;
+  change.time = t;
+  change.check = spec.name;
+  change.priority = spec.priority;
+  change.message = spec.message;
+  change.value = v;
+  change.unit = signals_.unit(slot);
+  change.tag = tag;
+  change.detail = when.of + " " + figure(v, change.unit) + (suppress ? " " : " no longer ") +
+                  (below ? "below " : "above ") + figure(when.threshold, change.unit);
+  sink.on_change(spec_.name, change);
+  if (!suppress && check.node->active() != check.reported) {
+    check.reported = check.node->active();
+    emit_condition(check, t, tag, sink);
+  }
+}
+
+void AssetEvaluator::publish(CheckStep& check, CheckOutcome outcome, core::SensorTime t,
+                             std::string_view tag, ConditionSink& sink) {
+  check.last = std::move(outcome);
+  if (check.suppressed || check.last.active == check.reported) return;
+  check.reported = check.last.active;
+  emit_condition(check, t, tag, sink);
+}
+
+void AssetEvaluator::emit_condition(const CheckStep& check, core::SensorTime t,
+                                    std::string_view tag, ConditionSink& sink) const {
+  const CheckSpec& spec = spec_.checks[check.spec_index];
+  ConditionChange change;
+  change.kind = ConditionChange::Kind::condition;
+  change.active = check.reported;
+  change.time = t;
+  change.check = spec.name;
+  change.priority = spec.priority;
+  change.message = spec.message;
+  change.value = check.last.value;
+  change.unit = check.unit;
+  change.tag = tag;
+  change.detail = check.last.detail;
+  change.forecast = check.last.forecast;
+  sink.on_change(spec_.name, change);
+}
+
+void AssetEvaluator::save(StateWriter& out) const {
+  out.put_u8(kStateVersion);
+  signals_.save(out);
+  out.put_optional_time(started_);
+  out.put_u64(inputs_.size());
+  for (const auto& input : inputs_) {
+    out.put_time(input.heard);
+    out.put_bool(input.usable);
+    out.put_bool(input.silent);
+    out.put_bool(input.quality_active);
+  }
+  out.put_u64(checks_.size());
+  for (const auto& check : checks_) {
+    check.node->save(out);
+    out.put_bool(check.reported);
+    out.put_bool(check.suppressed);
+    out.put_bool(check.last.active);
+    out.put_double(check.last.value);
+    out.put_string(check.last.detail);
+    put_forecast(out, check.last.forecast);
+  }
+}
+
+bool AssetEvaluator::load(StateReader& in) {
+  if (in.get_u8() != kStateVersion || !signals_.load(in)) {
+    in.fail();
+    return false;
+  }
+  started_ = in.get_optional_time();
+  if (in.get_u64() != inputs_.size()) in.fail();
+  for (std::size_t i = 0; i < inputs_.size() && in.ok(); ++i) {
+    inputs_[i].heard = in.get_time();
+    inputs_[i].usable = in.get_bool();
+    inputs_[i].silent = in.get_bool();
+    inputs_[i].quality_active = in.get_bool();
+  }
+  if (in.get_u64() != checks_.size()) in.fail();
+  for (std::size_t c = 0; c < checks_.size() && in.ok(); ++c) {
+    CheckStep& check = checks_[c];
+    if (!check.node->load(in)) in.fail();
+    check.reported = in.get_bool();
+    check.suppressed = in.get_bool();
+    check.last.active = in.get_bool();
+    check.last.value = in.get_double();
+    check.last.detail = in.get_string();
+    check.last.forecast = get_forecast(in);
+  }
+  return in.ok();
 }
 
 }  // namespace bw::engine

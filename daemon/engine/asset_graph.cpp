@@ -1,9 +1,12 @@
-#include "core/overloaded.h"
 #include "engine/asset_graph.h"
 
 #include <array>
 #include <map>
 #include <optional>
+#include <set>
+
+#include "core/overloaded.h"
+#include "engine/check_settings.h"
 
 namespace bw::engine {
 namespace {
@@ -156,21 +159,80 @@ class Analyser {
     graph_.order.push_back(node);
   }
 
-  // A check names either a signal (limits) or an estimator of a fitting kind.
+  // A check names a signal (limit, rate), an estimator of a fitting kind (statistical, time to
+  // limit) or an input fit for it (data-quality checks); its name is its own.
   void check_checks() {
+    std::set<std::string> names;
     for (const auto& check : asset_.checks) {
+      if (!names.insert(check.name).second) {
+        problem("check name '" + check.name + "' is used twice in asset '" + asset_.name + "'",
+                check.where);
+      }
+      for (const auto& input : asset_.inputs) {
+        if (check.name == quality_check_name(input.role)) {
+          problem("check name '" + check.name + "' is taken by the data-quality check of input '" +
+                      input.role + "'; choose another name",
+                  check.where);
+        }
+      }
       std::visit(
           core::Overloaded{
-              [&](const LimitCheckSpec& c) { resolve_signal(c.of, check.where); },
+              [&](const LimitCheckSpec& c) {
+                if (!resolve_signal(c.of, check.where)) return;
+                const auto settings = limit_settings(asset_, c);
+                if (!settings) {
+                  problem("check '" + check.name + "': " + settings.error().message, check.where);
+                }
+              },
+              [&](const RateCheckSpec& c) { resolve_signal(c.of, check.where); },
               [&](const StatisticalCheckSpec& c) {
                 require_estimator(check, c.estimator, {"cusum", "ewma_chart"});
               },
               [&](const TimeToLimitCheckSpec& c) {
                 require_estimator(check, c.estimator, {"trend"});
               },
+              [&](const StaleCheckSpec& c) {
+                const InputSpec* input = require_input(check, c.of);
+                if (input != nullptr && input->expected_interval_s <= 0) {
+                  problem("check '" + check.name + "': input '" + c.of +
+                              "' declares no expected_interval, so it cannot be judged stale",
+                          check.where);
+                }
+              },
+              [&](const FlatlineCheckSpec& c) { require_input(check, c.of); },
+              [&](const OutOfRangeCheckSpec& c) {
+                const InputSpec* input = require_input(check, c.of);
+                if (input != nullptr && !(input->range_low && input->range_high)) {
+                  problem("check '" + check.name + "': input '" + c.of +
+                              "' declares no range to be out of",
+                          check.where);
+                }
+              },
+              [&](const Ne43CheckSpec& c) {
+                const InputSpec* input = require_input(check, c.of);
+                if (input != nullptr && input->unit != "mA") {
+                  problem("check '" + check.name + "': input '" + c.of + "' is in '" + input->unit +
+                              "', but NE 43 failure levels apply to a raw current "
+                              "in 'mA'",
+                          check.where);
+                }
+              },
           },
           check.kind);
+      if (check.suppressed_when) resolve_signal(check.suppressed_when->of, check.where);
     }
+  }
+
+  // Data-quality checks watch an instrument: the signal they name must be an input.
+  const InputSpec* require_input(const CheckSpec& check, const std::string& name) {
+    const InputSpec* input = find_input(asset_, name);
+    if (input == nullptr) {
+      problem("check '" + check.name + "' watches '" + name +
+                  "', which is not an input of asset '" + asset_.name +
+                  "' (data-quality checks watch inputs)",
+              check.where);
+    }
+    return input;
   }
 
   void require_estimator(const CheckSpec& check, const std::string& name,

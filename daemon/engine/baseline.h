@@ -12,6 +12,7 @@
 #include "core/running_stats.h"
 #include "core/sensor_time.h"
 #include "engine/site_model.h"
+#include "engine/state_codec.h"
 
 namespace bw::engine {
 
@@ -25,6 +26,9 @@ class BaselineLearner {
   bool ready() const { return ready_; }
   double target() const { return target_; }
   double sigma() const { return sigma_; }
+
+  void save(StateWriter& out) const;
+  bool load(StateReader& in);
 
  private:
   void settle();

@@ -12,6 +12,7 @@
 #include "core/rate_of_change.h"
 #include "core/rls.h"
 #include "engine/baseline.h"
+#include "engine/core_state_codec.h"
 
 namespace bw::engine {
 namespace {
@@ -31,6 +32,13 @@ class EwmaNode final : public EstimatorNode {
     ewma_.update(in[0], t);
     out[0] = ewma_.mean();
     out[1] = ewma_.stddev();
+    return true;
+  }
+  void save(StateWriter& out) const override { put(out, ewma_.state()); }
+  bool load(StateReader& in) override {
+    core::Ewma::State state;
+    if (!get(in, state)) return false;
+    ewma_.restore(state);
     return true;
   }
 
@@ -62,6 +70,18 @@ class CusumNode final : public EstimatorNode {
     out[0] = step.upper;
     out[1] = step.lower;
     return true;
+  }
+  void save(StateWriter& out) const override {
+    baseline_.save(out);
+    put(out, cusum_.state());
+    out.put_i64(signal_);
+  }
+  bool load(StateReader& in) override {
+    core::Cusum::State state;
+    if (!baseline_.load(in) || !get(in, state)) return false;
+    cusum_.restore(state);
+    signal_ = static_cast<int>(in.get_i64());
+    return in.ok();
   }
   int signal() const override { return signal_; }
   std::string describe_signal() const override {
@@ -103,6 +123,26 @@ class EwmaChartNode final : public EstimatorNode {
     out[2] = last_.lower;
     return true;
   }
+  void save(StateWriter& out) const override {
+    baseline_.save(out);
+    put(out, chart_.state());
+    out.put_double(last_.statistic);
+    out.put_double(last_.lower);
+    out.put_double(last_.upper);
+    out.put_i64(last_.signal);
+    out.put_bool(last_.accepted);
+  }
+  bool load(StateReader& in) override {
+    core::EwmaChart::State state;
+    if (!baseline_.load(in) || !get(in, state)) return false;
+    chart_.restore(state);
+    last_.statistic = in.get_double();
+    last_.lower = in.get_double();
+    last_.upper = in.get_double();
+    last_.signal = static_cast<int>(in.get_i64());
+    last_.accepted = in.get_bool();
+    return in.ok();
+  }
   int signal() const override { return last_.signal; }
   std::string describe_signal() const override {
     return format_figure("EWMA %.4g outside %.4g", last_.statistic,
@@ -142,6 +182,19 @@ class RlsNode final : public EstimatorNode {
     out[2] = step.prediction != 0 ? 100.0 * step.residual / step.prediction : 0.0;
     return true;
   }
+  void save(StateWriter& out) const override {
+    put(out, rls_.state());
+    out.put_optional_time(first_);
+  }
+  bool load(StateReader& in) override {
+    core::Rls::State state;
+    if (!get(in, state)) return false;
+    const std::size_t n = rls_.regressors();
+    if (state.coefficients.size() != n || state.covariance.size() != n * n) return false;
+    rls_.restore(state);
+    first_ = in.get_optional_time();
+    return in.ok();
+  }
 
  private:
   core::Rls rls_;
@@ -159,6 +212,11 @@ class WarmUp {
   bool over(core::SensorTime t) {
     if (!first_) first_ = t;
     return core::seconds_between(*first_, t) >= seconds_;
+  }
+  void save(StateWriter& out) const { out.put_optional_time(first_); }
+  bool load(StateReader& in) {
+    first_ = in.get_optional_time();
+    return in.ok();
   }
 
  private:
@@ -183,6 +241,18 @@ class TrendNode final : public EstimatorNode {
     if (!ready_) return std::nullopt;
     return trend_.time_to_limit(limit, now, side);
   }
+  void save(StateWriter& out) const override {
+    put(out, trend_.state());
+    warm_up_.save(out);
+    out.put_bool(ready_);
+  }
+  bool load(StateReader& in) override {
+    core::LinearTrend::State state;
+    if (!get(in, state) || !warm_up_.load(in)) return false;
+    trend_.restore(state);
+    ready_ = in.get_bool();
+    return in.ok();
+  }
 
  private:
   core::LinearTrend trend_;
@@ -198,6 +268,16 @@ class RateNode final : public EstimatorNode {
     rate_.update(in[0], t);
     if (!warm_up_.over(t) || !rate_.primed()) return false;
     out[0] = rate_.per_hour();
+    return true;
+  }
+  void save(StateWriter& out) const override {
+    put(out, rate_.state());
+    warm_up_.save(out);
+  }
+  bool load(StateReader& in) override {
+    core::RateOfChange::State state;
+    if (!get(in, state) || !warm_up_.load(in)) return false;
+    rate_.restore(state);
     return true;
   }
 

@@ -15,6 +15,7 @@
 #include "core/sensor_time.h"
 #include "core/trend.h"
 #include "engine/site_model.h"
+#include "engine/state_codec.h"
 
 namespace bw::engine {
 
@@ -26,6 +27,11 @@ class EstimatorNode {
   // Returns true when the outputs were written.
   virtual bool update(std::span<const double> inputs, core::SensorTime t,
                       std::span<double> outputs) = 0;
+
+  // Checkpoints: save() writes everything update() depends on; load() restores it so that the
+  // estimator continues bit for bit, or returns false (state of another shape: discard it).
+  virtual void save(StateWriter& out) const = 0;
+  virtual bool load(StateReader& in) = 0;
 
   // Statistical estimators: +1 / -1 while out of control high / low, else 0.
   virtual int signal() const { return 0; }

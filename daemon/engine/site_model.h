@@ -8,8 +8,12 @@
 // Names used for cross references inside one asset:
 //   - an input role ("level"), a derived signal name ("volume"), or an estimator output written
 //     "<estimator>.<output>" (for example "pump_model.residual_percent"; see kEstimatorOutputs)
-//     are all "signals" and may feed estimators, other derived signals and limit checks;
-//   - statistical and time-to-limit checks name an estimator directly.
+//     are all "signals" and may feed estimators, other derived signals, limit and rate checks
+//     and suppression conditions;
+//   - statistical and time-to-limit checks name an estimator directly;
+//   - data-quality checks (stale, flatline, out_of_range, ne43) name an input;
+//   - every bound input also has an implicit data-quality check "<role>_quality", so no
+//     configured check may take that name.
 // Invariants established by the loader with engine/asset_graph.h (the engine asserts them):
 // names are unique within an asset across inputs, signals and estimators; every reference
 // resolves to a node of the right kind; the graph has no cycle; every required input is bound.
@@ -36,14 +40,27 @@ struct Where {
 // Alert priority. Stored and transmitted by name; numeric values are ordinal only.
 enum class Priority : std::uint8_t { low = 1, medium = 2, high = 3, urgent = 4 };
 
+// What an input measures. Limit checks on an input take their default deadband and delays from
+// it (see engine/check_settings.h). Written by name in files.
+enum class Measurement : std::uint8_t {
+  level,
+  pressure,
+  flow,
+  temperature,
+  differential_pressure,
+  current,
+  other,
+};
+
 struct InputSpec {
   std::string role;  // name inside the template, e.g. "level"
   std::string unit;  // engineering unit, e.g. "ft"
   std::string tag;   // bound tag name; empty when the input is optional and not bound
   bool required = true;
-  double expected_interval_s = 0;  // nominal sampling interval; 0 = not declared
-  std::optional<double> range_low;   // instrument range, engineering units
+  double expected_interval_s = 0;   // nominal sampling interval; 0 = not declared
+  std::optional<double> range_low;  // instrument range, engineering units
   std::optional<double> range_high;
+  Measurement measurement = Measurement::other;
   Where where;
 };
 
@@ -141,11 +158,32 @@ struct EstimatorSpec {
 
 enum class LimitDirection : std::uint8_t { high, low };
 
+// A limit on a signal. Several levels (high-high, high, low, low-low) are separate checks on the
+// same signal. Settings left unset take defaults (engine/check_settings.h): on an input, those
+// of its measurement type; on any other signal, 0.
 struct LimitCheckSpec {
   std::string of;  // a signal
   LimitDirection direction = LimitDirection::high;
   double limit = 0;
-  double deadband = 0;  // engineering units; the alert clears only beyond limit -/+ deadband
+  // The condition clears only once the value is back inside the limit by the deadband: given in
+  // engineering units, or in percent of the input's span (its range); at most one of the two.
+  std::optional<double> deadband;
+  std::optional<double> deadband_percent;
+  std::optional<double> on_delay_s;   // the value must stay beyond the limit this long to raise
+  std::optional<double> off_delay_s;  // and back inside this long to clear
+};
+
+enum class RateDirection : std::uint8_t { rising, falling };
+
+// A limit on the smoothed rate of change of a signal, in its units per hour.
+struct RateCheckSpec {
+  std::string of;                                   // a signal
+  RateDirection direction = RateDirection::rising;  // rising: rate > limit; falling: < -limit
+  double limit = 0;                                 // units per hour, > 0
+  double horizon_s = 0;                             // smoothing time constant of the rate, > 0
+  double deadband = 0;                              // units per hour
+  double on_delay_s = 0;
+  double off_delay_s = 0;
 };
 
 struct StatisticalCheckSpec {  // raises when a CUSUM or EWMA chart signals
@@ -159,13 +197,46 @@ struct TimeToLimitCheckSpec {  // raises when a trend will cross `limit` within 
   double lead_time_s = 0;
 };
 
-using CheckKind = std::variant<LimitCheckSpec, StatisticalCheckSpec, TimeToLimitCheckSpec>;
+// Data-quality checks; each watches one input directly.
+struct StaleCheckSpec {  // no sample within factor x the input's expected_interval
+  std::string of;
+  double factor = 3.0;
+};
+
+struct FlatlineCheckSpec {  // every sample within `tolerance` of the window's first for `window`
+  std::string of;
+  double tolerance = 0;  // engineering units, > 0
+  double window_s = 0;   // > 0
+};
+
+struct OutOfRangeCheckSpec {  // the value is outside the input's range, widened by `margin`
+  std::string of;
+  double margin_percent = 0;  // percent of span
+};
+
+struct Ne43CheckSpec {  // a raw 4-20 mA current at a NAMUR NE 43 failure level
+  std::string of;
+};
+
+using CheckKind =
+    std::variant<LimitCheckSpec, StatisticalCheckSpec, TimeToLimitCheckSpec, RateCheckSpec,
+                 StaleCheckSpec, FlatlineCheckSpec, OutOfRangeCheckSpec, Ne43CheckSpec>;
+
+// Suppression by design: while `of` is below (or above) `threshold` the check reports that it is
+// suppressed and keeps its condition changes to itself.
+struct SuppressionSpec {
+  std::string of;                             // a signal
+  LimitDirection when = LimitDirection::low;  // low: while of < threshold; high: of > threshold
+  double threshold = 0;
+};
 
 struct CheckSpec {
   std::string name;
   CheckKind kind;
   Priority priority = Priority::medium;
-  std::string message;  // plain words for the crew; the engine appends figures
+  std::string message;    // plain words for the crew; the engine appends figures
+  bool latching = false;  // the alert stays raised until acknowledged (the lifecycle's job)
+  std::optional<SuppressionSpec> suppressed_when;
   Where where;
 };
 

@@ -36,6 +36,17 @@ std::string alert_to_json(const engine::AlertTransition& t) {
   append_json_string(out, t.tag);
   field("message");
   append_json_string(out, t.message);
+  field("state");
+  append_json_string(out, engine::to_string(t.to));
+  field("previous_state");
+  append_json_string(out, engine::to_string(t.from));
+  field("cause");
+  append_json_string(out, engine::to_string(t.cause));
+  for (auto [name, text] : {std::pair{"who", t.who}, {"reason", t.reason}, {"source", t.source}}) {
+    if (text.empty()) continue;
+    field(name);
+    append_json_string(out, text);
+  }
   if (t.forecast) {
     field("forecast");
     out += "{\"crossing\":";
@@ -56,13 +67,14 @@ std::string alert_to_json(const engine::AlertTransition& t) {
   return out;
 }
 
-Result<std::unique_ptr<AlertLog>> AlertLog::open(const std::filesystem::path& path) {
-  if (path == "-") return std::unique_ptr<AlertLog>(new AlertLog(stdout, false));
-  std::FILE* file = std::fopen(path.c_str(), "w");
+Result<std::unique_ptr<AlertLog>> AlertLog::open(const std::filesystem::path& path, Mode mode,
+                                                 Hold hold) {
+  if (path == "-") return std::unique_ptr<AlertLog>(new AlertLog(stdout, false, hold));
+  std::FILE* file = std::fopen(path.c_str(), mode == Mode::append ? "a" : "w");
   if (file == nullptr) {
     return Error{"cannot write alerts to " + path.string() + ": " + std::strerror(errno)};
   }
-  return std::unique_ptr<AlertLog>(new AlertLog(file, true));
+  return std::unique_ptr<AlertLog>(new AlertLog(file, true, hold));
 }
 
 AlertLog::~AlertLog() {
@@ -71,13 +83,21 @@ AlertLog::~AlertLog() {
 }
 
 void AlertLog::on_transition(const engine::AlertTransition& transition) {
-  line_ = alert_to_json(transition);
-  line_.push_back('\n');
-  if (std::fwrite(line_.data(), 1, line_.size(), file_) != line_.size()) ok_ = false;
+  write_line(alert_to_json(transition));
+}
+
+void AlertLog::write_line(std::string_view json) {
+  held_.append(json);
+  held_.push_back('\n');
   ++written_;
+  if (hold_ == Hold::bounded && held_.size() >= kAutoFlushBytes) flush();
 }
 
 bool AlertLog::flush() {
+  if (!held_.empty() && std::fwrite(held_.data(), 1, held_.size(), file_) != held_.size()) {
+    ok_ = false;
+  }
+  held_.clear();
   if (std::fflush(file_) != 0) ok_ = false;
   return ok_;
 }

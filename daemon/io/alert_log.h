@@ -1,9 +1,11 @@
 // Writes alert transitions as JSON Lines: one object per transition, in engine order.
 //
 // Fields (a public interface: add, never rename): time (ISO 8601 UTC), site, asset, check,
-// event ("raised" / "cleared"), priority ("low" / "medium" / "high" / "urgent"), value, unit,
-// tag, message, and for look-ahead checks forecast {crossing, crossing_early, crossing_late,
-// limit}. Output is buffered; flush() or destruction writes it out. A write failure is sticky
+// event (see engine::AlertEvent: "raised", "cleared", "acknowledged", "shelved", ...), priority
+// ("low" / "medium" / "high" / "urgent"), value, unit, tag, message, state and previous_state
+// (ISA-18.2 states: "normal", "unacknowledged", ...), cause ("sample", "silence", "command",
+// "shelve_expiry", "restore"), for commands who, reason and source, and for look-ahead checks
+// forecast {crossing, crossing_early, crossing_late, limit}. Output is buffered; flush() or destruction writes it out. A write failure is sticky
 // and reported by ok().
 #pragma once
 
@@ -21,26 +23,34 @@ std::string alert_to_json(const engine::AlertTransition& transition);
 
 class AlertLog final : public engine::AlertSink {
  public:
-  // Opens (truncates) `path`; "-" means standard output.
-  static Result<std::unique_ptr<AlertLog>> open(const std::filesystem::path& path);
+  enum class Mode { truncate, append };
+  enum class Hold { bounded, until_flush };
+  static constexpr std::size_t kAutoFlushBytes = 1 << 20;
+  // Opens `path` (emptied, or appended to); "-" means standard output.
+  static Result<std::unique_ptr<AlertLog>> open(const std::filesystem::path& path,
+                                                Mode mode = Mode::truncate,
+                                                Hold hold = Hold::bounded);
   ~AlertLog() override;
   AlertLog(const AlertLog&) = delete;
   AlertLog& operator=(const AlertLog&) = delete;
 
   void on_transition(const engine::AlertTransition& transition) override;
+  // Writes one JSON object of another shape (without its newline) as a line of its own.
+  void write_line(std::string_view json);
   // Writes out what is buffered; returns false if any write so far failed.
   bool flush();
   bool ok() const { return ok_; }
   std::size_t written() const { return written_; }
 
  private:
-  AlertLog(std::FILE* file, bool owned) : file_(file), owned_(owned) {}
+  AlertLog(std::FILE* file, bool owned, Hold hold) : file_(file), owned_(owned), hold_(hold) {}
 
   std::FILE* file_;
   bool owned_;
+  Hold hold_;
   bool ok_ = true;
   std::size_t written_ = 0;
-  std::string line_;
+  std::string held_;
 };
 
 }  // namespace bw::io

@@ -11,6 +11,7 @@
 #include "io/local_time_zone.h"
 #include "io/mapped_file.h"
 #include "io/sample_fields.h"
+#include "io/time_field.h"
 #include "io/time_parse.h"
 
 namespace bw::io {
@@ -163,21 +164,8 @@ class RowReader {
       return std::nullopt;
     }
     std::optional<ConversionNote> note;
-    if (looks_like_epoch_seconds(field)) {
-      const auto epoch = parse_epoch_seconds(field);
-      if (!epoch) return RowProblemKind::bad_time;
-      out = *epoch;
-    } else {
-      const auto iso = parse_iso8601(field);
-      if (!iso) return RowProblemKind::bad_time;
-      if (iso->offset_minutes) {
-        out = to_sensor_time(*iso);
-      } else if (!zone_) {
-        return RowProblemKind::no_time_zone;
-      } else {
-        note.emplace();
-        out = zone_->to_utc(iso->civil, *note);
-      }
+    if (const auto problem = parse_time_field(field, zone_ ? &*zone_ : nullptr, out, note)) {
+      return problem;
     }
     count_local(note);
     last_time_text_ = field;

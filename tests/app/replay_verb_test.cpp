@@ -1,6 +1,5 @@
 // End-to-end tests of the executable: the verbs as a person or a script calls them.
 #include <gtest/gtest.h>
-#include <sys/wait.h>
 
 #include <cstdio>
 #include <filesystem>
@@ -8,62 +7,46 @@
 #include <sstream>
 #include <string>
 
+#include "run_command.h"
+
 namespace {
 
 namespace fs = std::filesystem;
 
-struct CommandResult {
-  int status = -1;
-  std::string output;  // stdout and stderr together
-};
+using bw::testing::CommandResult;
+using bw::testing::lines_of;
 
-CommandResult run(const std::string& arguments) {
-  const std::string command = std::string(BRINEWATCH_EXE) + " " + arguments + " 2>&1";
-  CommandResult result;
-  FILE* pipe = popen(command.c_str(), "r");
-  if (pipe == nullptr) return result;
-  char buffer[4096];
-  while (std::size_t n = std::fread(buffer, 1, sizeof buffer, pipe)) result.output.append(buffer, n);
-  const int raw = pclose(pipe);
-  result.status = WIFEXITED(raw) ? WEXITSTATUS(raw) : -1;
-  return result;
-}
+CommandResult run(const std::string& arguments) { return bw::testing::run_brinewatch(arguments); }
 
-std::string fixture(const std::string& name) {
-  return std::string(BRINEWATCH_SOURCE_DIR) + "/tests/app/fixtures/" + name;
-}
+std::string fixture(const std::string& name) { return bw::testing::fixture_path(name); }
 
-fs::path scratch(const std::string& name) {
-  const fs::path dir = fs::temp_directory_path() / ("brinewatch-app-test-" + std::to_string(::getpid()));
-  fs::create_directories(dir);
-  return dir / name;
-}
+fs::path scratch(const std::string& name) { return bw::testing::scratch_dir("verbs") / name; }
 
-std::vector<std::string> lines_of(const fs::path& file) {
-  std::ifstream in(file);
-  std::vector<std::string> lines;
-  for (std::string line; std::getline(in, line);) lines.push_back(line);
-  return lines;
-}
-
+// The tank_level template's level limits use the level defaults (common practice: 5 % of span
+// deadband, 60 s on- and off-delay), so the raise falls due 60 s after the level first exceeds
+// 15 ft, and the clear 60 s after it falls below 15 - 1.25 ft.
 TEST(ReplayVerb, WritesOneJsonLinePerTransitionAndSummarises) {
   const fs::path alerts = scratch("alerts.jsonl");
   const CommandResult r = run("replay --config " + fixture("one-tank.yaml") + " --input " +
-                    fixture("one-tank-long.csv") + " --alerts " + alerts.string());
+                              fixture("one-tank-long.csv") + " --alerts " + alerts.string());
   ASSERT_EQ(r.status, 0) << r.output;
-  std::vector<std::string> lines;  // the level limit's transitions (the fill rate fires too)
+  std::vector<std::string> lines;  // the level limit's transitions (the fill rate may fire too)
   for (const auto& line : lines_of(alerts)) {
     if (line.find(R"("check":"level_high")") != std::string::npos) lines.push_back(line);
   }
   ASSERT_EQ(lines.size(), 2u) << r.output;
-  EXPECT_EQ(lines[0].rfind(R"({"time":"2026-03-01T06:02:00.000Z","site":"Test Flats SWD 1",)"
+  EXPECT_EQ(lines[0].rfind(R"({"time":"2026-03-01T06:03:00.000Z","site":"Test Flats SWD 1",)"
                            R"("asset":"tank_a","check":"level_high","event":"raised",)"
                            R"("priority":"high","value":15.2,"unit":"ft","tag":"TF1.TK1.LEVEL",)",
                            0),
             0u)
       << lines[0];
-  EXPECT_NE(lines[1].find(R"("time":"2026-03-01T06:05:00.000Z")"), std::string::npos);
+  EXPECT_NE(lines[0].find(R"("state":"unacknowledged","previous_state":"normal","cause":"sample")"),
+            std::string::npos)
+      << lines[0];
+  EXPECT_NE(lines[1].find(R"("time":"2026-03-01T06:06:00.000Z")"), std::string::npos) << lines[1];
   EXPECT_NE(lines[1].find(R"("event":"cleared")"), std::string::npos);
+  EXPECT_NE(lines[1].find(R"("state":"returned_unacknowledged")"), std::string::npos) << lines[1];
   // The summary names the rejected row and its line, the unbound tag, and the alert counts.
   EXPECT_NE(r.output.find("line 5"), std::string::npos) << r.output;
   EXPECT_NE(r.output.find("OTHER.TAG"), std::string::npos) << r.output;

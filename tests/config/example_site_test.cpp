@@ -52,7 +52,8 @@ TEST_F(ExampleSite, AppliesParameterOverridesWhereTheyAreUsed) {
   EXPECT_EQ(high.of, "level");
   EXPECT_EQ(high.direction, LimitDirection::high);
   EXPECT_DOUBLE_EQ(high.limit, 17.5);    // override
-  EXPECT_DOUBLE_EQ(high.deadband, 0.5);  // parameter default
+  ASSERT_TRUE(high.deadband.has_value());
+  EXPECT_DOUBLE_EQ(*high.deadband, 0.5);  // parameter default
   EXPECT_DOUBLE_EQ(check<TimeToLimitCheckSpec>(tank1, "overflow_ahead").limit, 17.5);
 
   const auto& skim = asset(site(), "skim_tank");

@@ -148,5 +148,111 @@ TEST(RuleTemplate, KeepsGoingAndReportsEveryBadKey) {
   ASSERT_EQ(c.diagnostics.size(), 3u) << testing::dump(c.diagnostics);
 }
 
+TEST(RuleTemplate, ReadsMeasurementAndLimitDelays) {
+  const auto c = compile(
+      "template: probe\ndescription: test\n"
+      "inputs:\n  level: {unit: ft, range: [0, 25], measurement: level}\n"
+      "checks:\n"
+      "  high: {kind: limit, of: level, limit: 18, deadband_percent: 4, on_delay: 2min, "
+      "off_delay: 30s, latching: true, priority: urgent, message: x}\n");
+  ASSERT_TRUE(c.diagnostics.empty()) << testing::dump(c.diagnostics);
+  EXPECT_EQ(testing::input(c.asset, "level").measurement, engine::Measurement::level);
+  const auto& high = testing::check<engine::LimitCheckSpec>(c.asset, "high");
+  EXPECT_FALSE(high.deadband.has_value());
+  EXPECT_EQ(high.deadband_percent, 4.0);
+  EXPECT_EQ(high.on_delay_s, 120.0);
+  EXPECT_EQ(high.off_delay_s, 30.0);
+  EXPECT_TRUE(c.asset.checks[0].latching);
+  EXPECT_EQ(c.asset.checks[0].priority, engine::Priority::urgent);
+}
+
+TEST(RuleTemplate, UnsetLimitSettingsStayUnsetForTheMeasurementDefaults) {
+  const auto c =
+      compile(kHeader + "checks:\n  high: {kind: limit, of: level, limit: 18, message: x}\n");
+  ASSERT_TRUE(c.diagnostics.empty()) << testing::dump(c.diagnostics);
+  const auto& high = testing::check<engine::LimitCheckSpec>(c.asset, "high");
+  EXPECT_FALSE(high.deadband || high.deadband_percent || high.on_delay_s || high.off_delay_s);
+  EXPECT_EQ(testing::input(c.asset, "level").measurement, engine::Measurement::other);
+}
+
+TEST(RuleTemplate, UnknownMeasurementSuggestsTheNearest) {
+  const auto c = compile(
+      "template: probe\ndescription: test\ninputs:\n  level: {unit: ft, measurement: presure}\n");
+  expect_one(c, 4, 34,
+             "input 'level': key 'measurement': expected one of level, pressure, flow, "
+             "temperature, differential_pressure, current, other, got 'presure'; did you mean "
+             "'pressure'?");
+}
+
+TEST(RuleTemplate, DeadbandInUnitsAndInPercentExcludeEachOther) {
+  const auto c = compile(kHeader +
+                         "checks:\n  high: {kind: limit, of: level, limit: 18, deadband: 1, "
+                         "deadband_percent: 2, message: x}\n");
+  expect_one(c, 6, 76,
+             "check 'high': give the deadband either in engineering units ('deadband') or in "
+             "percent of span ('deadband_percent'), not both");
+}
+
+TEST(RuleTemplate, UnknownCheckKeySuggestsTheNearest) {
+  const auto c = compile(kHeader +
+                         "checks:\n  high: {kind: limit, of: level, limit: 18, on_dealy: 1min, "
+                         "message: x}\n");
+  ASSERT_EQ(c.diagnostics.size(), 1u) << testing::dump(c.diagnostics);
+  EXPECT_NE(c.diagnostics[0].message.find("'on_dealy'"), std::string::npos);
+  EXPECT_NE(c.diagnostics[0].message.find("did you mean 'on_delay'?"), std::string::npos)
+      << c.diagnostics[0].message;
+}
+
+TEST(RuleTemplate, ReadsEveryNewCheckKind) {
+  const auto c = compile(
+      "template: probe\ndescription: test\n"
+      "inputs:\n"
+      "  level: {unit: ft, expected_interval: 1min, range: [0, 25]}\n"
+      "  loop: {unit: mA}\n"
+      "  speed: {unit: Hz}\n"
+      "checks:\n"
+      "  filling: {kind: rate, of: level, direction: falling, limit: 2, horizon: 10min, "
+      "deadband: 0.5, on_delay: 1min, message: x}\n"
+      "  silent: {kind: stale, of: level, message: x}\n"
+      "  stuck: {kind: flatline, of: level, tolerance: 0.01, window: 2h, message: x}\n"
+      "  ranged: {kind: out_of_range, of: level, margin: 3, message: x}\n"
+      "  failed: {kind: ne43, of: loop, suppressed_when: {of: speed, below: 5}, message: x}\n"
+      "  other: {kind: ne43, of: loop, suppressed_when: {of: speed, above: 55}, message: x}\n");
+  ASSERT_TRUE(c.diagnostics.empty()) << testing::dump(c.diagnostics);
+  const auto& rate = testing::check<engine::RateCheckSpec>(c.asset, "filling");
+  EXPECT_EQ(rate.direction, engine::RateDirection::falling);
+  EXPECT_EQ(rate.limit, 2.0);
+  EXPECT_EQ(rate.horizon_s, 600.0);
+  EXPECT_EQ(rate.deadband, 0.5);
+  EXPECT_EQ(rate.on_delay_s, 60.0);
+  EXPECT_EQ(rate.off_delay_s, 0.0);
+  EXPECT_EQ(testing::check<engine::StaleCheckSpec>(c.asset, "silent").factor, 3.0);  // default
+  const auto& stuck = testing::check<engine::FlatlineCheckSpec>(c.asset, "stuck");
+  EXPECT_EQ(stuck.tolerance, 0.01);
+  EXPECT_EQ(stuck.window_s, 7200.0);
+  EXPECT_EQ(testing::check<engine::OutOfRangeCheckSpec>(c.asset, "ranged").margin_percent, 3.0);
+  const auto* failed = testing::find_named(c.asset.checks, "failed");
+  ASSERT_TRUE(failed && failed->suppressed_when);
+  EXPECT_EQ(failed->suppressed_when->of, "speed");
+  EXPECT_EQ(failed->suppressed_when->when, engine::LimitDirection::low);
+  EXPECT_EQ(failed->suppressed_when->threshold, 5.0);
+  EXPECT_EQ(testing::find_named(c.asset.checks, "other")->suppressed_when->when,
+            engine::LimitDirection::high);
+}
+
+TEST(RuleTemplate, SuppressionNeedsExactlyOneOfBelowAndAbove) {
+  const auto c = compile(kHeader +
+                         "checks:\n  high: {kind: limit, of: level, limit: 18, message: x, "
+                         "suppressed_when: {of: level, below: 1, above: 3}}\n");
+  expect_one(c, 6, 74,
+             "check 'high': key 'suppressed_when': give exactly one of 'below' or 'above'");
+}
+
+TEST(RuleTemplate, RateLimitMustBePositive) {
+  const auto c = compile(
+      kHeader + "checks:\n  r: {kind: rate, of: level, limit: 0, horizon: 1h, message: x}\n");
+  expect_one(c, 6, 37, "check 'r': key 'limit': must be > 0, got 0");
+}
+
 }  // namespace
 }  // namespace bw::config

@@ -37,10 +37,18 @@ TEST_F(ExampleSiteDescription, MentionsEveryAssetTagAndCheck) {
 }
 
 TEST_F(ExampleSiteDescription, ShowsLimitsWithUnitsAndPriorities) {
+  // The on-/off-delays come from the input's measurement type: 60 s for a level (common
+  // practice, from memory; see engine/check_settings.h).
   EXPECT_TRUE(
-      mentions("check level_high: limit on level, high 17.5 ft (deadband 0.5 ft), "
-               "priority high"))
+      mentions("check level_high: limit on level, high 17.5 ft (deadband 0.5 ft, on-delay 1min, "
+               "off-delay 1min), priority high"))
       << text_;
+  // No deadband given: 5 % of the 0-25 ft span = 1.25 ft (common practice for level).
+  EXPECT_TRUE(
+      mentions("check level_high_high: limit on level, high 19.5 ft (deadband 1.25 ft, "
+               "on-delay 1min, off-delay 1min), priority urgent"))
+      << text_;
+  EXPECT_TRUE(mentions("check level_stale: stale, when level has no sample for 3min (3 x 1min)"));
   EXPECT_TRUE(mentions("check fill_rate_high: limit on fill_rate.per_hour, high 500 bbl/h"));
   EXPECT_TRUE(
       mentions("check overflow_ahead: time to limit, when trend level_trend will reach "

@@ -57,6 +57,14 @@ TEST(TemplateErrors, OutOfBoundsValueGivesTheBounds) {
               "estimator 'level_chart': key 'lambda': must be in (0, 1], got 1.5");
 }
 
+// The level default (5 % of span, common practice) cannot be worked out without a range.
+TEST(TemplateErrors, MeasurementDefaultDeadbandNeedsARange) {
+  const auto result = load("  tank_a: {template: no_range, tags: {level: DC4.TK1.LEVEL}}\n");
+  expect_only(result, kBadRules + "/no_range.yaml", 6, 3,
+              "check 'level_high': the default deadband of a level input (5 % of span) needs a "
+              "range, but 'level' declares none; give input 'level' a range or give 'deadband'");
+}
+
 TEST(TemplateErrors, ReferenceToNoParameterSuggestsTheNearest) {
   const auto result = load("  tank_a: {template: bad_reference, tags: {level: DC4.TK1.LEVEL}}\n");
   expect_only(result, kBadRules + "/bad_reference.yaml", 8, 47,

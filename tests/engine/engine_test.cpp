@@ -160,7 +160,7 @@ TEST(Engine, OneTagFeedsEveryAssetBoundToIt) {
   EXPECT_EQ(sink.recorded[1].asset, "tank_b");
 }
 
-TEST(Engine, CountsUnboundTagsBadQualityAndNonFiniteValuesWithoutEvaluatingThem) {
+TEST(Engine, BadQualityRaisesTheDataQualityAlertInsteadOfTheProcessAlert) {
   Engine engine(site_with(with_high_limit(5.0, 0.0)));
   RecordingSink sink;
   engine.process({"OTHER", at_seconds(0), 9.0}, sink);
@@ -168,14 +168,23 @@ TEST(Engine, CountsUnboundTagsBadQualityAndNonFiniteValuesWithoutEvaluatingThem)
   engine.process({"T.LEVEL", at_seconds(2), 9.0, Quality::bad}, sink);
   engine.process({"T.LEVEL", at_seconds(3), 9.0, Quality::uncertain}, sink);
   engine.process({"T.LEVEL", at_seconds(4), NAN}, sink);
-  EXPECT_TRUE(sink.recorded.empty());
+  ASSERT_EQ(sink.recorded.size(), 1u);
+  EXPECT_EQ(sink.recorded[0].check, "level_quality");
+  EXPECT_EQ(sink.recorded[0].event, AlertEvent::raised);
   const auto& c = engine.counters();
   EXPECT_EQ(c.samples, 5u);
   EXPECT_EQ(c.unknown_tag, 2u);
   EXPECT_EQ(c.not_good, 2u);
   EXPECT_EQ(c.non_finite, 1u);
-  EXPECT_EQ(c.evaluated, 0u);
+  EXPECT_EQ(c.evaluated, 2u);  // the bad samples reach the asset, which holds its checks
   EXPECT_EQ(c.first_unknown_tags, std::vector<std::string>{"OTHER"});
+  // A good sample clears the data-quality alert and lets the limit speak.
+  engine.process({"T.LEVEL", at_seconds(5), 9.0}, sink);
+  ASSERT_EQ(sink.recorded.size(), 3u);
+  EXPECT_EQ(sink.recorded[1].check, "level_quality");
+  EXPECT_EQ(sink.recorded[1].event, AlertEvent::cleared);
+  EXPECT_EQ(sink.recorded[2].check, "level_high");
+  EXPECT_EQ(sink.recorded[2].event, AlertEvent::raised);
 }
 
 TEST(Engine, DerivedSignalsHoldTheirOtherOperands) {

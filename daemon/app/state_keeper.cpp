@@ -1,0 +1,132 @@
+#include "app/state_keeper.h"
+
+#include <charconv>
+
+namespace bw::app {
+namespace {
+
+std::int64_t micros(core::SensorTime t) { return t.time_since_epoch().count(); }
+
+}  // namespace
+
+// A transition held until its commit lands: the journal row, and the strings the transition's
+// views point into, so it can be passed on intact afterwards.
+struct StateKeeper::Pending {
+  io::JournalEntry entry;
+  engine::AlertTransition transition;
+  std::string unit;
+
+  explicit Pending(const engine::AlertTransition& t) : transition(t), unit(t.unit) {
+    entry.time_us = micros(t.time);
+    entry.site = std::string(t.site);
+    entry.asset = std::string(t.asset);
+    entry.check = std::string(t.check);
+    entry.event = std::string(engine::to_string(t.event));
+    entry.from_state = std::string(engine::to_string(t.from));
+    entry.to_state = std::string(engine::to_string(t.to));
+    entry.priority = std::string(engine::to_string(t.priority));
+    entry.cause = std::string(engine::to_string(t.cause));
+    entry.who = std::string(t.who);
+    entry.reason = std::string(t.reason);
+    entry.source = std::string(t.source);
+    entry.tag = std::string(t.tag);
+    entry.message = t.message;
+    entry.value = t.value;
+    // Re-point every view at strings this object owns.
+    transition.site = entry.site;
+    transition.asset = entry.asset;
+    transition.check = entry.check;
+    transition.tag = entry.tag;
+    transition.unit = unit;
+    transition.who = entry.who;
+    transition.reason = entry.reason;
+    transition.source = entry.source;
+  }
+};
+
+StateKeeper::StateKeeper(std::unique_ptr<io::StateStore> store, engine::Engine& engine,
+                         engine::NotificationPolicy* policy, engine::AlertSink& next)
+    : store_(std::move(store)), engine_(engine), policy_(policy), next_(next) {}
+
+StateKeeper::~StateKeeper() = default;
+
+Result<StateKeeper::Opened> StateKeeper::open(const std::filesystem::path& dir,
+                                              engine::Engine& engine,
+                                              engine::NotificationPolicy* policy,
+                                              engine::AlertSink& next, core::SensorTime now) {
+  Opened opened;
+  auto store = io::StateStore::open(dir, opened.store);
+  if (!store) return store.error();
+  auto checkpoints = store.value()->load_checkpoints();
+  if (!checkpoints) return checkpoints.error();
+  std::vector<engine::EngineCheckpoint> saved;
+  for (auto& c : checkpoints.value()) {
+    if (c.scope == kPolicyScope) {
+      if (policy == nullptr) continue;
+      engine::StateReader r(c.state);
+      (policy->load(r) && r.finished() ? opened.restore.restored : opened.restore.reset)
+          .push_back(c.scope);
+      continue;
+    }
+    saved.push_back({std::move(c.scope), std::move(c.definition_hash), std::move(c.state)});
+  }
+  const auto restored = engine.restore(saved);
+  opened.restore.restored.insert(opened.restore.restored.end(), restored.restored.begin(),
+                                 restored.restored.end());
+  opened.restore.reset.insert(opened.restore.reset.end(), restored.reset.begin(),
+                              restored.reset.end());
+  auto position = store.value()->meta(kPositionKey);
+  if (!position) return position.error();
+  if (position.value()) {
+    std::int64_t us = 0;
+    const std::string& text = *position.value();
+    if (std::from_chars(text.data(), text.data() + text.size(), us).ec != std::errc()) {
+      return Error{"state store " + store.value()->path().string() + ": bad " + kPositionKey +
+                   " '" + text + "'"};
+    }
+    opened.position = core::SensorTime(core::Micros(us));
+  }
+  auto last = store.value()->last_seq();
+  if (!last) return last.error();
+  opened.keeper.reset(new StateKeeper(std::move(store.value()), engine, policy, next));
+  opened.keeper->last_seq_ = last.value();
+  if (opened.store.moved_aside) {
+    engine.report_daemon_event(engine::Engine::kDaemonChecks[0],
+                               "the state database was damaged (" + opened.store.problem +
+                                   "); it was moved to " + opened.store.moved_aside->string() +
+                                   " and brinewatch started with fresh state",
+                               now, *opened.keeper);
+  }
+  return opened;
+}
+
+void StateKeeper::on_transition(const engine::AlertTransition& transition) {
+  pending_.push_back(std::make_unique<Pending>(transition));
+}
+
+Status StateKeeper::commit(core::SensorTime position) {
+  // Pass on first, so the notification policy's checkpoint includes these transitions.
+  for (; passed_on_ < pending_.size(); ++passed_on_) next_.on_transition(pending_[passed_on_]->transition);
+  if (caught_up_) caught_up_(position);
+  io::StateStore::Batch batch;
+  for (const auto& p : pending_) batch.journal.push_back(p->entry);
+  for (auto& c : engine_.checkpoint()) {
+    batch.checkpoints.push_back(
+        {std::move(c.scope), std::move(c.definition), micros(position), std::move(c.state)});
+  }
+  if (policy_ != nullptr) {
+    engine::StateWriter w;
+    policy_->save(w);
+    batch.checkpoints.push_back({kPolicyScope, engine_.site().name, micros(position), w.take()});
+  }
+  batch.meta.emplace_back(kPositionKey, std::to_string(micros(position)));
+  auto seq = store_->commit(batch);
+  if (!seq) return seq.error();
+  last_seq_ = seq.value();
+  pending_.clear();
+  passed_on_ = 0;
+  if (after_commit_ && !after_commit_()) return Error{"writing the alert outputs failed"};
+  return Ok{};
+}
+
+}  // namespace bw::app

@@ -1,0 +1,90 @@
+// Keeps an engine's state in the durable store: restores it at start, journals every
+// transition, and commits checkpoints, journal and position together.
+//
+// Sits in the transition path as an AlertSink: every transition is buffered as a journal entry
+// until commit(), which (1) passes the buffered transitions on to `next` (whose outputs must be
+// held, not yet written), (2) writes in one transaction the journal entries, a checkpoint of
+// every engine scope and of the notification policy, and the position (the event time up to
+// which every input has been applied), and (3) only then calls `after_commit` to write the held
+// outputs. So what the crew sees is always backed by the journal, and a restart after a crash
+// neither loses a journal entry nor repeats one; on restart, inputs at or before the position
+// are skipped. (A crash between (2) and (3) loses output lines, never journal entries.)
+//
+// A damaged store found at open is moved aside by the store; the keeper then raises the
+// daemon's own alert saying so (engine.raise_daemon_alert) as the first journal entry of the
+// fresh store.
+#pragma once
+
+#include <filesystem>
+#include <functional>
+#include <memory>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "core/result.h"
+#include "engine/engine.h"
+#include "engine/notification_policy.h"
+#include "io/state_store.h"
+
+namespace bw::app {
+
+class StateKeeper final : public engine::AlertSink {
+ public:
+  struct Opened {
+    std::unique_ptr<StateKeeper> keeper;
+    io::StoreOpenReport store;
+    engine::RestoreReport restore;
+    std::optional<core::SensorTime> position;  // inputs at or before it were applied already
+  };
+
+  // Opens the store in `dir`, restores `engine` (and `policy`, when given) from it, and
+  // journals a damaged-store alert (at `now`) when the store had to start afresh.
+  static Result<Opened> open(const std::filesystem::path& dir, engine::Engine& engine,
+                             engine::NotificationPolicy* policy, engine::AlertSink& next,
+                             core::SensorTime now);
+
+  ~StateKeeper() override;
+  StateKeeper(const StateKeeper&) = delete;
+  StateKeeper& operator=(const StateKeeper&) = delete;
+
+  void on_transition(const engine::AlertTransition& transition) override;
+
+  // Hooks of each commit: `caught_up(position)` once the buffered transitions have been passed
+  // on (time-driven output up to the position, e.g. flood summaries); `after_commit()` once
+  // the transaction landed (write out what was held; false on failure).
+  void set_hooks(std::function<void(core::SensorTime)> caught_up,
+                 std::function<bool()> after_commit) {
+    caught_up_ = std::move(caught_up);
+    after_commit_ = std::move(after_commit);
+  }
+
+  // See the class comment. On failure the journal entries stay buffered for the next attempt.
+  Status commit(core::SensorTime position);
+
+  std::size_t pending() const { return pending_.size(); }
+  std::int64_t last_seq() const { return last_seq_; }
+
+ private:
+  StateKeeper(std::unique_ptr<io::StateStore> store, engine::Engine& engine,
+              engine::NotificationPolicy* policy, engine::AlertSink& next);
+
+  std::unique_ptr<io::StateStore> store_;
+  engine::Engine& engine_;
+  engine::NotificationPolicy* policy_;
+  engine::AlertSink& next_;
+  std::function<void(core::SensorTime)> caught_up_;
+  std::function<bool()> after_commit_;
+  std::size_t passed_on_ = 0;  // leading pending_ entries already passed to next_
+  // Each pending transition as a journal entry and, for the sink, a copy that owns its strings.
+  struct Pending;
+  std::vector<std::unique_ptr<Pending>> pending_;
+  std::int64_t last_seq_ = 0;
+};
+
+// The meta key under which the position is stored (microseconds since the epoch, decimal).
+inline constexpr const char* kPositionKey = "input_position_us";
+// The checkpoint scope of the notification policy.
+inline constexpr const char* kPolicyScope = "notification_policy";
+
+}  // namespace bw::app

@@ -1,0 +1,70 @@
+// `brinewatch state --dir DIR`: what a state store holds, for a person at the edge box.
+#include <cstdio>
+
+#include "app/option_parser.h"
+#include "app/state_keeper.h"
+#include "app/verbs.h"
+#include "io/json_text.h"
+#include "io/state_store.h"
+
+namespace bw::app {
+namespace {
+
+std::string time_text(std::int64_t us) {
+  return io::format_utc(core::SensorTime(core::Micros(us)));
+}
+
+}  // namespace
+
+int run_state(const Arguments& args) {
+  std::string dir;
+  std::string journal = "20";
+  OptionParser parser("state");
+  parser.value("dir", dir, true);
+  parser.value("journal", journal);
+  if (!parser.parse(args)) return 2;
+  const std::size_t limit = std::strtoul(journal.c_str(), nullptr, 10);
+
+  io::StoreOpenReport report;
+  auto store = io::StateStore::open(dir, report);
+  if (!store) {
+    std::fprintf(stderr, "brinewatch state: %s\n", store.error().message.c_str());
+    return 1;
+  }
+  if (report.moved_aside) {
+    std::printf("the database was damaged (%s) and was moved to %s; a fresh one was made\n",
+                report.problem.c_str(), report.moved_aside->c_str());
+  }
+  std::printf("store: %s (schema version %d)\n", store.value()->path().c_str(), report.schema_version);
+  auto position = store.value()->meta(kPositionKey);
+  auto last = store.value()->last_seq();
+  auto checkpoints = store.value()->load_checkpoints();
+  if (!position || !last || !checkpoints) {
+    std::fprintf(stderr, "brinewatch state: cannot read the store\n");
+    return 1;
+  }
+  if (position.value()) {
+    std::printf("inputs applied up to: %s\n", time_text(std::stoll(*position.value())).c_str());
+  }
+  std::printf("journal entries: %lld\n", static_cast<long long>(last.value()));
+  std::printf("checkpoints:\n");
+  for (const auto& c : checkpoints.value()) {
+    std::printf("  %-28s %8zu bytes  taken at %s  definition %s\n", c.scope.c_str(), c.state.size(),
+                time_text(c.taken_at_us).c_str(), c.definition_hash.c_str());
+  }
+  const std::int64_t from = std::max<std::int64_t>(0, last.value() - static_cast<std::int64_t>(limit));
+  auto entries = store.value()->read_journal(from, limit);
+  if (!entries) {
+    std::fprintf(stderr, "brinewatch state: %s\n", entries.error().message.c_str());
+    return 1;
+  }
+  if (!entries.value().empty()) std::printf("last %zu journal entries:\n", entries.value().size());
+  for (const auto& e : entries.value()) {
+    std::printf("  #%-6lld %s  %s/%s  %s (%s -> %s, %s)  %s\n", static_cast<long long>(e.seq),
+                time_text(e.time_us).c_str(), e.asset.c_str(), e.check.c_str(), e.event.c_str(),
+                e.from_state.c_str(), e.to_state.c_str(), e.cause.c_str(), e.message.c_str());
+  }
+  return 0;
+}
+
+}  // namespace bw::app
