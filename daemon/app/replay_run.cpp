@@ -62,6 +62,7 @@ class EngineFeed final : public io::SampleVisitor {
       ++skipped_samples_;
       return;
     }
+    if (keeper_ != nullptr && !latest_) keeper_->report_damage(sample.time);
     if (latest_ && sample.time < *latest_) ++out_of_time_order_;
     if (latest_ && sample.time > *latest_) maybe_commit(*latest_);
     run_commands_until(sample.time);
@@ -144,10 +145,6 @@ class EngineFeed final : public io::SampleVisitor {
   bool shown_ = false;
 };
 
-core::SensorTime wall_clock_now() {
-  return std::chrono::time_point_cast<core::Micros>(std::chrono::system_clock::now());
-}
-
 }  // namespace
 
 int replay(const ReplayRequest& request) {
@@ -206,8 +203,7 @@ int replay(const ReplayRequest& request) {
   std::optional<core::SensorTime> resume_after;
   std::string state_note;
   if (with_state) {
-    auto opened = StateKeeper::open(request.state_dir, engine, &notification_policy, tally,
-                                    wall_clock_now());
+    auto opened = StateKeeper::open(request.state_dir, engine, &notification_policy, tally);
     if (!opened) {
       std::fprintf(stderr, "brinewatch replay: %s\n", opened.error().message.c_str());
       return 1;

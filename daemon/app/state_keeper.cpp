@@ -53,7 +53,7 @@ StateKeeper::~StateKeeper() = default;
 Result<StateKeeper::Opened> StateKeeper::open(const std::filesystem::path& dir,
                                               engine::Engine& engine,
                                               engine::NotificationPolicy* policy,
-                                              engine::AlertSink& next, core::SensorTime now) {
+                                              engine::AlertSink& next) {
   Opened opened;
   auto store = io::StateStore::open(dir, opened.store);
   if (!store) return store.error();
@@ -91,13 +91,17 @@ Result<StateKeeper::Opened> StateKeeper::open(const std::filesystem::path& dir,
   opened.keeper.reset(new StateKeeper(std::move(store.value()), engine, policy, next));
   opened.keeper->last_seq_ = last.value();
   if (opened.store.moved_aside) {
-    engine.report_daemon_event(engine::Engine::kDaemonChecks[0],
-                               "the state database was damaged (" + opened.store.problem +
-                                   "); it was moved to " + opened.store.moved_aside->string() +
-                                   " and brinewatch started with fresh state",
-                               now, *opened.keeper);
+    opened.keeper->damage_ = "the state database was damaged (" + opened.store.problem +
+                             "); it was moved to " + opened.store.moved_aside->string() +
+                             " and brinewatch started with fresh state";
   }
   return opened;
+}
+
+void StateKeeper::report_damage(core::SensorTime t) {
+  if (damage_.empty()) return;
+  engine_.report_daemon_event(engine::Engine::kDaemonChecks[0], std::move(damage_), t, *this);
+  damage_.clear();
 }
 
 void StateKeeper::on_transition(const engine::AlertTransition& transition) {

@@ -11,8 +11,9 @@
 // are skipped. (A crash between (2) and (3) loses output lines, never journal entries.)
 //
 // A damaged store found at open is moved aside by the store; the keeper then raises the
-// daemon's own alert saying so (engine.raise_daemon_alert) as the first journal entry of the
-// fresh store.
+// daemon's own alert saying so (Engine::report_daemon_event) when report_damage(t) is called:
+// at start-up on the wall clock live, at the first sample's time in replay, so that the
+// journal stays in time order.
 #pragma once
 
 #include <filesystem>
@@ -38,11 +39,12 @@ class StateKeeper final : public engine::AlertSink {
     std::optional<core::SensorTime> position;  // inputs at or before it were applied already
   };
 
-  // Opens the store in `dir`, restores `engine` (and `policy`, when given) from it, and
-  // journals a damaged-store alert (at `now`) when the store had to start afresh.
+  // Opens the store in `dir` and restores `engine` (and `policy`, when given) from it.
   static Result<Opened> open(const std::filesystem::path& dir, engine::Engine& engine,
-                             engine::NotificationPolicy* policy, engine::AlertSink& next,
-                             core::SensorTime now);
+                             engine::NotificationPolicy* policy, engine::AlertSink& next);
+
+  // Raises the damaged-store alert at `t` if the store had to start afresh; once only.
+  void report_damage(core::SensorTime t);
 
   ~StateKeeper() override;
   StateKeeper(const StateKeeper&) = delete;
@@ -76,6 +78,7 @@ class StateKeeper final : public engine::AlertSink {
   std::function<void(core::SensorTime)> caught_up_;
   std::function<bool()> after_commit_;
   std::size_t passed_on_ = 0;  // leading pending_ entries already passed to next_
+  std::string damage_;         // what report_damage() will say; empty when there is nothing
   // Each pending transition as a journal entry and, for the sink, a copy that owns its strings.
   struct Pending;
   std::vector<std::unique_ptr<Pending>> pending_;

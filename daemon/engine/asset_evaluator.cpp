@@ -297,6 +297,9 @@ void AssetEvaluator::emit_condition(const CheckStep& check, core::SensorTime t,
   change.tag = tag;
   change.detail = check.last.detail;
   change.forecast = check.last.forecast;
+  // A stale tag is raised by time passing without a sample; everything else by a sample.
+  const bool silence = std::holds_alternative<StaleCheckSpec>(spec.kind) && check.reported;
+  change.cause = silence ? TransitionCause::silence : TransitionCause::sample;
   sink.on_change(spec_.name, change);
 }
 

@@ -1,11 +1,15 @@
 // The dependency graph of one asset: which signals and estimators feed which, in what order
 // they are evaluated, and whether every reference is sound.
 //
-// analyse_asset() is pure and total: it never throws and reports every problem it finds (a
-// duplicate name, a reference to nothing, a check naming the wrong kind of estimator, a cycle,
-// an unbound required input, a derived signal with the wrong number of operands), each with the location of the definition at fault. The
-// configuration loader turns problems into diagnostics; the engine only accepts an asset whose
-// analysis has none.
+// analyse_asset() is pure and total: it never throws and reports every problem it finds, each
+// with the location of the definition at fault: a duplicate name (of a signal, estimator or
+// check, or a check taking the name of an input's data-quality check), a reference to nothing,
+// a check naming the wrong kind of estimator, a cycle, an unbound required input, a derived
+// signal with the wrong number of operands, a data-quality check on something that is not an
+// input or on an input lacking what it needs (an expected interval for stale, a range for
+// out-of-range, mA for NE 43), and limit settings that cannot be worked out (a percent-of-span
+// deadband on a signal with no range). The configuration loader turns problems into
+// diagnostics; the engine only accepts an asset whose analysis has none.
 #pragma once
 
 #include <cstddef>

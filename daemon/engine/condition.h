@@ -25,7 +25,7 @@ struct ConditionChange {
   core::SensorTime time;
   std::string_view check;  // the check's name (configured, or implicit such as "level_quality")
   Priority priority = Priority::medium;
-  std::string_view message;  // the configured message ("" for implicit checks)
+  std::string_view message;  // the configured message (implicit checks bring their own)
   double value = 0;          // the watched signal's value
   std::string_view unit;
   std::string_view tag;      // the tag whose sample (or silence) caused the change

@@ -9,9 +9,9 @@
 // expiring, shelves running out), exactly as a live timer would have run it. One tag may feed
 // inputs of several assets; assets are visited in site-file order.
 //
-// Samples of any quality reach the assets (bad ones hold the checks that depend on them and
-// raise a data-quality alert); a sample on a tag bound to nothing is counted, as is a non-finite
-// value on a good sample.
+// Samples of any quality reach the assets: a bad or uncertain one holds the checks that depend
+// on it and raises the input's data-quality alert ("<role>_quality") instead. A sample on a tag
+// bound to nothing is counted, and a non-finite value on a good sample is counted and dropped.
 //
 // Checkpoints: checkpoint() captures everything that evolves (each asset's estimators and
 // checks, every alert's lifecycle, the event clock) as opaque bytes with a definition

@@ -2,6 +2,7 @@
 
 #include <sqlite3.h>
 
+#include <algorithm>
 #include <cassert>
 #include <limits>
 #include <utility>
@@ -12,6 +13,16 @@ namespace {
 // SQLite takes lengths as int; state blobs are far below this, and a larger one is refused with
 // a clear message instead of being cut short.
 constexpr std::size_t kMaxLength = std::numeric_limits<int>::max();
+
+// A migration is many lines of SQL; an error message names it by its first statement's start.
+std::string sql_summary(std::string_view sql) {
+  constexpr std::size_t kShown = 60;
+  const std::size_t start = std::min(sql.find_first_not_of(" \n"), sql.size());
+  const std::size_t line_end = std::min(sql.find('\n', start), sql.size());
+  const std::string_view line = sql.substr(start, line_end - start);
+  if (line.size() <= kShown && line_end == sql.size()) return std::string(line);
+  return std::string(line.substr(0, kShown)) + "...";
+}
 
 }  // namespace
 
@@ -48,12 +59,12 @@ Error SqliteConnection::fail(std::string_view doing) {
                sqlite3_errmsg(db_)};
 }
 
-Result<Done> SqliteConnection::exec(std::string_view sql) {
+Status SqliteConnection::exec(std::string_view sql) {
   const std::string text(sql);
   if (sqlite3_exec(db_, text.c_str(), nullptr, nullptr, nullptr) != SQLITE_OK) {
-    return fail(text);
+    return fail(sql_summary(sql));
   }
-  return Done{};
+  return Ok{};
 }
 
 Result<std::int64_t> SqliteConnection::query_int(std::string_view sql) {
@@ -187,7 +198,7 @@ SqliteTransaction::~SqliteTransaction() {
   if (connection_ != nullptr) sqlite3_exec(connection_->db_, "ROLLBACK", nullptr, nullptr, nullptr);
 }
 
-Result<Done> SqliteTransaction::commit() {
+Status SqliteTransaction::commit() {
   assert(connection_ != nullptr);
   auto committed = connection_->exec("COMMIT");
   if (committed) connection_ = nullptr;

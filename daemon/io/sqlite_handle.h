@@ -27,9 +27,6 @@ struct sqlite3_stmt;
 
 namespace bw::io {
 
-// The value of a step that succeeds without producing anything.
-using Done = std::monostate;
-
 class SqliteConnection {
  public:
   enum class Mode { open_existing, create_if_missing };
@@ -46,7 +43,7 @@ class SqliteConnection {
   ~SqliteConnection();
 
   // Runs one or more statements without parameters.
-  Result<Done> exec(std::string_view sql);
+  Status exec(std::string_view sql);
   // The first column of the first row of a query (an error when there is no row).
   Result<std::int64_t> query_int(std::string_view sql);
   Result<std::string> query_text(std::string_view sql);
@@ -122,7 +119,7 @@ class SqliteTransaction {
   SqliteTransaction& operator=(const SqliteTransaction&) = delete;
   ~SqliteTransaction();
 
-  Result<Done> commit();
+  Status commit();
 
  private:
   explicit SqliteTransaction(SqliteConnection& connection) : connection_(&connection) {}

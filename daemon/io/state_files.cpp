@@ -38,15 +38,15 @@ StateFiles StateFiles::in(const fs::path& dir, const std::string& file_name) {
   return {database, fs::path(database.string() + "-wal"), fs::path(database.string() + "-shm")};
 }
 
-Result<Done> ensure_state_directory(const fs::path& dir) {
+Status ensure_state_directory(const fs::path& dir) {
   std::error_code code;
-  if (fs::is_directory(dir, code)) return Done{};
+  if (fs::is_directory(dir, code)) return Ok{};
   if (!fs::create_directories(dir, code) && code) {
     return file_error(dir, "create state directory", code);
   }
   fs::permissions(dir, fs::perms::owner_all, fs::perm_options::replace, code);
   if (code) return file_error(dir, "set mode 0700 on state directory", code);
-  return Done{};
+  return Ok{};
 }
 
 Result<bool> wal_header_plausible(const fs::path& wal) {
@@ -92,7 +92,7 @@ Result<std::filesystem::path> move_aside(const StateFiles& files, MoveAside whic
   return fs::path(target + chosen.front().second);
 }
 
-Result<Done> sync_directory(const fs::path& dir) {
+Status sync_directory(const fs::path& dir) {
   const int fd = ::open(dir.c_str(), O_RDONLY | O_DIRECTORY | O_CLOEXEC);
   if (fd < 0 || ::fsync(fd) != 0) {
     const std::error_code code(errno, std::generic_category());
@@ -100,7 +100,7 @@ Result<Done> sync_directory(const fs::path& dir) {
     return file_error(dir, "sync directory", code);
   }
   ::close(fd);
-  return Done{};
+  return Ok{};
 }
 
 }  // namespace bw::io

@@ -23,7 +23,7 @@ struct StateFiles {
 };
 
 // Creates `dir` with mode 0700 when it does not exist; an existing directory is left as it is.
-Result<Done> ensure_state_directory(const std::filesystem::path& dir);
+Status ensure_state_directory(const std::filesystem::path& dir);
 
 // False when `wal` exists, is not empty, and does not begin with a WAL header's magic number
 // (0x377f0682 or 0x377f0683, big-endian: SQLite file format, "The WAL File Format"; from
@@ -43,6 +43,6 @@ Result<std::filesystem::path> move_aside(const StateFiles& files, MoveAside whic
                                          std::chrono::system_clock::time_point now);
 
 // fsync of a directory, so that a file created or renamed in it stays after a power loss.
-Result<Done> sync_directory(const std::filesystem::path& dir);
+Status sync_directory(const std::filesystem::path& dir);
 
 }  // namespace bw::io

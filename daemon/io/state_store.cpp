@@ -42,14 +42,14 @@ struct Examination {
   std::string damage;
 };
 
-Result<Done> run_to_end(SqliteStatement& statement) {
+Status run_to_end(SqliteStatement& statement) {
   auto row = statement.step();
   statement.reset();
   if (!row) return row.error();
-  return Done{};
+  return Ok{};
 }
 
-Result<Done> set_connection_options(SqliteConnection& db) {
+Status set_connection_options(SqliteConnection& db) {
   auto mode = db.query_text("PRAGMA journal_mode = WAL");
   if (!mode) return mode.error();
   if (mode.value() != "wal") {
@@ -60,7 +60,7 @@ Result<Done> set_connection_options(SqliteConnection& db) {
   // FULL: in WAL mode NORMAL may lose the last commits on a power loss; FULL may not.
   auto set = db.exec("PRAGMA synchronous = FULL; PRAGMA foreign_keys = ON");
   if (!set) return set.error();
-  return Done{};
+  return Ok{};
 }
 
 // Names of the tables and indexes of a database, each table with its columns, e.g.
@@ -68,7 +68,7 @@ Result<Done> set_connection_options(SqliteConnection& db) {
 Result<std::vector<std::string>> schema_outline(SqliteConnection& db) {
   auto objects = SqliteStatement::prepare(
       db,
-      "SELECT type, name FROM sqlite_schema WHERE type IN ('table', 'index') AND name NOT LIKE "
+      "SELECT type, name FROM sqlite_master WHERE type IN ('table', 'index') AND name NOT LIKE "
       "'sqlite_%' ORDER BY type, name");
   if (!objects) return objects.error();
   auto columns =
@@ -98,7 +98,7 @@ Result<std::vector<std::string>> schema_outline(SqliteConnection& db) {
   return outline;
 }
 
-Result<Done> migrate(SqliteConnection& db, int from) {
+Status migrate(SqliteConnection& db, int from) {
   for (int version = from; version < kCurrentVersion; ++version) {
     auto transaction = SqliteTransaction::begin(db);
     if (!transaction) return transaction.error();
@@ -109,7 +109,7 @@ Result<Done> migrate(SqliteConnection& db, int from) {
     auto committed = transaction->commit();
     if (!committed) return committed.error();
   }
-  return Done{};
+  return Ok{};
 }
 
 // The difference between the file's schema and the one its version promises: "" when every

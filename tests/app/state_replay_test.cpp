@@ -200,3 +200,35 @@ TEST(StateReplay, KilledAtRandomMomentsItResumesToTheSameJournal) {
 }
 
 }  // namespace
+
+namespace {
+
+// A damaged database is never silently discarded: it is moved aside, the replay starts afresh,
+// and the daemon's own alert says so as the first entry of the new journal.
+TEST(StateReplay, ADamagedStoreIsMovedAsideAndReportedAsAnAlert) {
+  const fs::path dir = bw::testing::scratch_dir("damaged");
+  write_history(dir / "all.csv", 0, 1440);
+  write_commands(dir / "commands.csv", 1);
+  const fs::path state = dir / "state";
+  fs::create_directories(state);
+  std::ofstream(state / bw::io::StateStore::kFileName) << "this is not a database, it is a note\n";
+
+  const auto r = run_brinewatch(replay_args(dir, dir / "all.csv", state, "1h"));
+  ASSERT_EQ(r.status, 0) << r.output;
+  EXPECT_NE(r.output.find("was damaged"), std::string::npos) << r.output;
+  int kept = 0;
+  for (const auto& entry : fs::directory_iterator(state)) {
+    kept += entry.path().filename().string().find(".damaged-") != std::string::npos;
+  }
+  EXPECT_GE(kept, 1) << "the damaged file is kept beside the new one";
+  const auto journal = journal_of(state);
+  ASSERT_GE(journal.size(), 2u);
+  EXPECT_EQ(journal[0].asset, "brinewatch");
+  EXPECT_EQ(journal[0].check, "state_store_reset");
+  EXPECT_EQ(journal[0].event, "raised");
+  EXPECT_EQ(journal[0].priority, "high");
+  EXPECT_EQ(journal[1].event, "cleared");
+  EXPECT_EQ(journal[1].to_state, "returned_unacknowledged") << "it waits for a person";
+}
+
+}  // namespace

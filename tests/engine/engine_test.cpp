@@ -233,3 +233,32 @@ TEST(Engine, SameSamplesGiveTheSameTransitionsBitForBit) {
 
 }  // namespace
 }  // namespace bw::engine
+
+namespace bw::engine {
+namespace {
+
+// A stale tag is raised by time passing (the engine's clock moves with other tags' samples in
+// replay), and its journal cause says so.
+TEST(Engine, AStaleTagIsRaisedBySilenceAndClearedByTheNextSample) {
+  AssetSpec asset = testing::level_asset();
+  asset.inputs[0].expected_interval_s = 60;
+  asset.inputs.push_back({.role = "flow", .unit = "bbl/d", .tag = "T.FLOW"});
+  asset.checks.push_back({.name = "level_stale", .kind = StaleCheckSpec{.of = "level", .factor = 3}});
+  Engine engine(testing::site_with(asset));
+  testing::RecordingSink sink;
+  engine.process({"T.LEVEL", testing::at_seconds(0), 5.0}, sink);
+  for (int i = 1; i <= 10; ++i) engine.process({"T.FLOW", testing::at_seconds(60.0 * i), 100.0}, sink);
+  ASSERT_EQ(sink.recorded.size(), 1u);
+  EXPECT_EQ(sink.recorded[0].check, "level_stale");
+  EXPECT_EQ(sink.recorded[0].cause, TransitionCause::silence);
+  EXPECT_DOUBLE_EQ(sink.recorded[0].time_s, 180.0);  // three expected intervals after the last
+  EXPECT_EQ(sink.recorded[0].to, AlertState::unacknowledged);
+  engine.process({"T.LEVEL", testing::at_seconds(660), 5.0}, sink);
+  ASSERT_EQ(sink.recorded.size(), 2u);
+  EXPECT_EQ(sink.recorded[1].event, AlertEvent::cleared);
+  EXPECT_EQ(sink.recorded[1].cause, TransitionCause::sample);
+  EXPECT_EQ(sink.recorded[1].to, AlertState::returned_unacknowledged);
+}
+
+}  // namespace
+}  // namespace bw::engine

@@ -37,13 +37,15 @@ struct RecordedTransition {
   double value;
   std::string message;
   std::optional<Forecast> forecast;
+  TransitionCause cause;
+  AlertState to;
 };
 
 class RecordingSink final : public AlertSink {
  public:
   void on_transition(const AlertTransition& t) override {
     recorded.push_back({core::to_epoch_seconds(t.time) - 1.7e9, std::string(t.asset),
-                        std::string(t.check), t.event, t.value, t.message, t.forecast});
+                        std::string(t.check), t.event, t.value, t.message, t.forecast, t.cause, t.to});
   }
   std::vector<RecordedTransition> recorded;
 };

@@ -480,7 +480,7 @@ void expect_migrated_from_1_with_data(const fs::path& dir, const JournalEntry& f
   EXPECT_EQ(store->meta("migrated").value(), std::optional<std::string>("yes"));
   RawDatabase raw(store->path());
   EXPECT_EQ(raw.text("PRAGMA user_version"), "2");
-  EXPECT_EQ(raw.text("SELECT name FROM sqlite_schema WHERE type = 'index' AND sql IS NOT NULL"),
+  EXPECT_EQ(raw.text("SELECT name FROM sqlite_master WHERE type = 'index' AND sql IS NOT NULL"),
             "journal_by_alert");
   EXPECT_EQ(raw.text("PRAGMA integrity_check"), "ok");
 }
