@@ -1,3 +1,4 @@
+#include "core/utc_text.h"
 #include "app/notification_feed.h"
 
 #include "io/json_text.h"
@@ -24,7 +25,7 @@ std::string_view notice_name(engine::PolicyNotice::Kind kind) {
 void NotificationFeed::write_notices(const std::vector<engine::PolicyNotice>& notices) {
   for (const auto& n : notices) {
     std::string line = "{\"time\":";
-    io::append_json_string(line, io::format_utc(n.time));
+    io::append_json_string(line, core::format_utc(n.time, core::UtcPrecision::milliseconds));
     line += ",\"site\":";
     io::append_json_string(line, policy_.site());
     line += ",\"notice\":";

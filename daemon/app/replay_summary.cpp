@@ -1,3 +1,4 @@
+#include "core/utc_text.h"
 #include "app/replay_summary.h"
 
 #include <algorithm>
@@ -91,7 +92,7 @@ std::string describe_state_open(const StateKeeper::Opened& opened, const std::fi
     out += ": new";
   } else {
     out += ": resumed";
-    if (opened.position) out += " after " + io::format_utc(*opened.position);
+    if (opened.position) out += " after " + core::format_utc(*opened.position, core::UtcPrecision::milliseconds);
     out += ", " + std::to_string(opened.restore.restored.size()) + " parts restored";
     if (!opened.restore.reset.empty()) {
       std::string names;

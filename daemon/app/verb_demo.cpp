@@ -6,6 +6,7 @@
 #include <filesystem>
 #include <fstream>
 
+#include "core/utc_text.h"
 #include "app/demo_files.h"
 #include "app/demo_history.h"
 #include "app/option_parser.h"
@@ -25,7 +26,7 @@ class TransitionTable final : public engine::AlertSink {
   void on_transition(const engine::AlertTransition& t) override {
     char row[512];
     std::snprintf(row, sizeof row, "  %s  %-13s %-15s %-8s %-7s %s\n",
-                  io::format_utc(t.time).substr(0, 16).c_str(), std::string(t.asset).c_str(),
+                  core::format_utc(t.time, core::UtcPrecision::milliseconds).substr(0, 16).c_str(), std::string(t.asset).c_str(),
                   std::string(t.check).c_str(), std::string(engine::to_string(t.event)).c_str(),
                   std::string(engine::to_string(t.priority)).c_str(), t.message.c_str());
     text += row;

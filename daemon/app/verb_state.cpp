@@ -1,6 +1,7 @@
 // `brinewatch state --dir DIR`: what a state store holds, for a person at the edge box.
 #include <cstdio>
 
+#include "core/utc_text.h"
 #include "app/option_parser.h"
 #include "app/state_keeper.h"
 #include "app/verbs.h"
@@ -11,7 +12,7 @@ namespace bw::app {
 namespace {
 
 std::string time_text(std::int64_t us) {
-  return io::format_utc(core::SensorTime(core::Micros(us)));
+  return core::format_utc(core::SensorTime(core::Micros(us)), core::UtcPrecision::milliseconds);
 }
 
 }  // namespace

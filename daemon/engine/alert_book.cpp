@@ -1,3 +1,4 @@
+#include "core/utc_text.h"
 #include "engine/alert_book.h"
 
 #include <algorithm>
@@ -116,7 +117,7 @@ void AlertBook::advance(core::SensorTime now, AlertSink& out) {
     t.who = ended.who;
     t.reason = ended.reason;
     t.source = ended.source;
-    t.message = "shelve ran out (shelved until " + format_utc(until) +
+    t.message = "shelve ran out (shelved until " + core::format_utc(until) +
                 by_whom(ended.who, ended.source, ended.reason) + ")";
     out.on_transition(t);
   }
@@ -213,7 +214,7 @@ CommandReply AlertBook::execute(const AlertCommand& command, AlertSink& out) {
     ++accepted;
     action = std::string(to_string(result->event));
     if (command.kind == AlertCommand::Kind::shelve) {
-      action += " until " + format_utc(entry->lifecycle.shelve()->until);
+      action += " until " + core::format_utc(entry->lifecycle.shelve()->until);
     }
     std::replace(action.begin(), action.end(), '_', ' ');
     action += by_whom(command.who, command.source, command.reason);

@@ -1,5 +1,7 @@
 #include "engine/alert_lifecycle.h"
 
+#include "core/utc_text.h"
+
 #include <cassert>
 #include <chrono>
 #include <cmath>
@@ -54,18 +56,6 @@ std::string_view to_string(AlertState state) {
   return "unknown";
 }
 
-std::string format_utc(core::SensorTime time) {
-  using namespace std::chrono;
-  const auto day = floor<days>(time);
-  const year_month_day date(day);
-  const hh_mm_ss clock(floor<seconds>(time - day));
-  char buffer[40];
-  std::snprintf(buffer, sizeof buffer, "%04d-%02u-%02uT%02d:%02d:%02dZ", int(date.year()),
-                unsigned(date.month()), unsigned(date.day()), int(clock.hours().count()),
-                int(clock.minutes().count()), int(clock.seconds().count()));
-  return buffer;
-}
-
 std::optional<std::string> shelve_refusal(const ShelveRequest& request, core::SensorTime now,
                                           double max_shelve_s) {
   assert(std::isfinite(max_shelve_s));
@@ -79,8 +69,8 @@ std::optional<std::string> shelve_refusal(const ShelveRequest& request, core::Se
   }
   const core::SensorTime until = shelve_end(request);
   if (until <= now) {
-    return "shelve until " + format_utc(until) + " would already have run out (now " +
-           format_utc(now) + ")";
+    return "shelve until " + core::format_utc(until) + " would already have run out (now " +
+           core::format_utc(now) + ")";
   }
   return std::nullopt;
 }

@@ -105,8 +105,6 @@ struct Shelve {
 std::optional<std::string> shelve_refusal(const ShelveRequest& request, core::SensorTime now,
                                           double max_shelve_s);
 
-// A time for a person: "2024-03-05T14:07:00Z" (UTC, whole seconds).
-std::string format_utc(core::SensorTime time);
 
 class AlertLifecycle {
  public:

@@ -1,3 +1,4 @@
+#include "core/utc_text.h"
 #include "io/alert_log.h"
 
 #include <cerrno>
@@ -17,7 +18,7 @@ std::string alert_to_json(const engine::AlertTransition& t) {
     out.push_back(':');
   };
   field("time");
-  append_json_string(out, format_utc(t.time));
+  append_json_string(out, core::format_utc(t.time, core::UtcPrecision::milliseconds));
   field("site");
   append_json_string(out, t.site);
   field("asset");
@@ -50,12 +51,12 @@ std::string alert_to_json(const engine::AlertTransition& t) {
   if (t.forecast) {
     field("forecast");
     out += "{\"crossing\":";
-    append_json_string(out, format_utc(t.forecast->crossing));
+    append_json_string(out, core::format_utc(t.forecast->crossing, core::UtcPrecision::milliseconds));
     out += ",\"crossing_early\":";
-    append_json_string(out, format_utc(t.forecast->crossing_early));
+    append_json_string(out, core::format_utc(t.forecast->crossing_early, core::UtcPrecision::milliseconds));
     out += ",\"crossing_late\":";
     if (t.forecast->crossing_late) {
-      append_json_string(out, format_utc(*t.forecast->crossing_late));
+      append_json_string(out, core::format_utc(*t.forecast->crossing_late, core::UtcPrecision::milliseconds));
     } else {
       out += "null";
     }

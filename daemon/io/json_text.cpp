@@ -50,19 +50,4 @@ void append_json_number(std::string& out, double value) {
   out.append(text, end);
 }
 
-std::string format_utc(core::SensorTime t) {
-  using namespace std::chrono;
-  const auto millis = floor<milliseconds>(t);
-  const auto day = floor<days>(millis);
-  const year_month_day ymd{day};
-  const hh_mm_ss<milliseconds> clock{millis - day};
-  char text[40];
-  std::snprintf(text, sizeof text, "%04d-%02u-%02uT%02d:%02d:%02d.%03dZ", static_cast<int>(ymd.year()),
-                static_cast<unsigned>(ymd.month()), static_cast<unsigned>(ymd.day()),
-                static_cast<int>(clock.hours().count()), static_cast<int>(clock.minutes().count()),
-                static_cast<int>(clock.seconds().count()),
-                static_cast<int>(clock.subseconds().count()));
-  return text;
-}
-
 }  // namespace bw::io

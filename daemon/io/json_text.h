@@ -1,4 +1,4 @@
-// Small helpers for writing JSON text by hand: string escaping and UTC time stamps.
+// Small helpers for writing JSON text by hand: string escaping and numbers.
 //
 // Enough for the flat records brinewatch emits (alerts, summaries); not a general JSON library.
 #pragma once
@@ -16,8 +16,5 @@ void append_json_string(std::string& out, std::string_view text);
 
 // Appends a number; non-finite values become null, which JSON can represent.
 void append_json_number(std::string& out, double value);
-
-// ISO 8601 UTC with millisecond precision, e.g. "2026-03-01T06:00:00.000Z".
-std::string format_utc(core::SensorTime t);
 
 }  // namespace bw::io

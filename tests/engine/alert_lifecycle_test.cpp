@@ -342,12 +342,6 @@ TEST(AlertLifecycle, StateNamesAreTheWireNames) {
   EXPECT_EQ(static_cast<int>(S::out_of_service), 7);
 }
 
-// Checked with GNU date: `date -u -d @1700000000 +%FT%TZ` and `date -u -d @1709208000 +%FT%TZ`.
-TEST(AlertLifecycle, FormatsTimesAsUtc) {
-  EXPECT_EQ(format_utc(core::sensor_time_from_seconds(1700000000)), "2023-11-14T22:13:20Z");
-  EXPECT_EQ(format_utc(core::sensor_time_from_seconds(1709208000.75)), "2024-02-29T12:00:00Z");
-}
-
 TEST(AlertLifecycle, SaveLoadRoundTripIsByteExact) {
   std::vector<AlertLifecycle> cases;
   cases.push_back(make({S::normal}));
