@@ -6,9 +6,10 @@
 set -euo pipefail
 
 build_packages=(g++ cmake ninja-build pkg-config libboost-dev libspdlog-dev libyaml-cpp-dev
-  libpaho-mqttpp-dev libhowardhinnant-date-dev libsqlite3-dev tzdata)
+  libpaho-mqttpp-dev libhowardhinnant-date-dev libsqlite3-dev tzdata nlohmann-json3-dev
+  libprotobuf-dev protobuf-compiler)
 test_packages=(googletest libgtest-dev libgmock-dev libbenchmark-dev python3 python3-numpy
-  python3-statsmodels r-cran-spc)
+  python3-statsmodels r-cran-spc mosquitto mosquitto-clients openssl)
 
 wanted=("${build_packages[@]}")
 if [[ "${1:-build}" == test ]]; then wanted+=("${test_packages[@]}"); fi

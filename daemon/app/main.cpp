@@ -11,6 +11,9 @@ namespace {
 constexpr std::string_view kUsage = R"(usage: brinewatch <verb> [options]
 
 verbs:
+  run --config SITE.yaml [--rules DIR]...
+        the live daemon: read the tag streams named in the site's 'live:' section from the
+        MQTT broker, publish alerts, keep state; stops cleanly on SIGINT or SIGTERM
   check SITE.yaml [--rules DIR]...
         validate a site file and its rule templates; print the compiled asset graph
   replay --config SITE.yaml --input HISTORY.csv [--alerts OUT.jsonl] [--strict]
@@ -45,6 +48,7 @@ int main(int argc, char** argv) {
   if (verb == "replay") return bw::app::run_replay(args);
   if (verb == "demo") return bw::app::run_demo(args);
   if (verb == "state") return bw::app::run_state(args);
+  if (verb == "run") return bw::app::run_live(args);
   if (verb == "version" || verb == "--version") {
     std::printf("brinewatch %s\n", bw::app::kVersion);
     return 0;

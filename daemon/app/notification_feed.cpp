@@ -1,6 +1,6 @@
-#include "core/utc_text.h"
 #include "app/notification_feed.h"
 
+#include "core/utc_text.h"
 #include "io/json_text.h"
 
 namespace bw::app {

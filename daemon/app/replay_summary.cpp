@@ -1,10 +1,10 @@
-#include "core/utc_text.h"
 #include "app/replay_summary.h"
 
 #include <algorithm>
 #include <cassert>
 #include <cstdio>
 
+#include "core/utc_text.h"
 #include "io/json_text.h"
 
 namespace bw::app {

@@ -1,5 +1,6 @@
 #include "app/state_keeper.h"
 
+#include <algorithm>
 #include <charconv>
 
 namespace bw::app {
@@ -108,17 +109,20 @@ void StateKeeper::on_transition(const engine::AlertTransition& transition) {
   pending_.push_back(std::make_unique<Pending>(transition));
 }
 
-Status StateKeeper::commit(core::SensorTime position) {
+Status StateKeeper::commit(core::SensorTime position, Depth depth) {
   // Pass on first, so the notification policy's checkpoint includes these transitions.
   for (; passed_on_ < pending_.size(); ++passed_on_) next_.on_transition(pending_[passed_on_]->transition);
   if (caught_up_) caught_up_(position);
   io::StateStore::Batch batch;
   for (const auto& p : pending_) batch.journal.push_back(p->entry);
+  if (outbox_source_) batch.outbox = outbox_source_();
+  batch.delivered = delivered_;
   for (auto& c : engine_.checkpoint()) {
+    if (depth == Depth::journal_only && c.scope != engine::Engine::kAlertBookScope) continue;
     batch.checkpoints.push_back(
         {std::move(c.scope), std::move(c.definition), micros(position), std::move(c.state)});
   }
-  if (policy_ != nullptr) {
+  if (policy_ != nullptr && depth == Depth::full) {
     engine::StateWriter w;
     policy_->save(w);
     batch.checkpoints.push_back({kPolicyScope, engine_.site().name, micros(position), w.take()});
@@ -129,8 +133,22 @@ Status StateKeeper::commit(core::SensorTime position) {
   last_seq_ = seq.value();
   pending_.clear();
   passed_on_ = 0;
+  delivered_.erase(delivered_.begin(), delivered_.begin() + static_cast<std::ptrdiff_t>(batch.delivered.size()));
   if (after_commit_ && !after_commit_()) return Error{"writing the alert outputs failed"};
   return Ok{};
+}
+
+Result<std::vector<io::OutboxMessage>> StateKeeper::read_outbox(std::int64_t after_id,
+                                                               std::size_t limit) const {
+  auto messages = store_->read_outbox(after_id, limit + delivered_.size());
+  if (!messages) return messages.error();
+  std::vector<io::OutboxMessage> waiting;
+  for (auto& m : messages.value()) {
+    if (waiting.size() == limit) break;
+    if (std::find(delivered_.begin(), delivered_.end(), m.id) != delivered_.end()) continue;
+    waiting.push_back(std::move(m));
+  }
+  return waiting;
 }
 
 }  // namespace bw::app

@@ -61,8 +61,24 @@ class StateKeeper final : public engine::AlertSink {
     after_commit_ = std::move(after_commit);
   }
 
+  // What a commit saves besides the journal, the alert book and the position: `full` also
+  // checkpoints every asset's estimators and checks and the notification policy (larger; live,
+  // every few minutes), `journal_only` does not (live, after each burst of transitions, so the
+  // outbox fills without delay). The alert book is always saved with the journal it explains.
+  enum class Depth { full, journal_only };
+
   // See the class comment. On failure the journal entries stay buffered for the next attempt.
-  Status commit(core::SensorTime position);
+  Status commit(core::SensorTime position, Depth depth = Depth::full);
+
+  // Live publishing: `source` yields the outbox messages made from the transitions just passed
+  // on (called inside commit, so they land in the same transaction as their journal entries).
+  void set_outbox_source(std::function<std::vector<io::OutboxMessage>()> source) {
+    outbox_source_ = std::move(source);
+  }
+  // The broker has outbox message `id`: it is deleted with the next commit and no longer read.
+  void mark_delivered(std::int64_t id) { delivered_.push_back(id); }
+  // Outbox messages after `after_id` that are not marked delivered, oldest first.
+  Result<std::vector<io::OutboxMessage>> read_outbox(std::int64_t after_id, std::size_t limit) const;
 
   std::size_t pending() const { return pending_.size(); }
   std::int64_t last_seq() const { return last_seq_; }
@@ -79,6 +95,8 @@ class StateKeeper final : public engine::AlertSink {
   std::function<bool()> after_commit_;
   std::size_t passed_on_ = 0;  // leading pending_ entries already passed to next_
   std::string damage_;         // what report_damage() will say; empty when there is nothing
+  std::function<std::vector<io::OutboxMessage>()> outbox_source_;
+  std::vector<std::int64_t> delivered_;  // sorted on use
   // Each pending transition as a journal entry and, for the sink, a copy that owns its strings.
   struct Pending;
   std::vector<std::unique_ptr<Pending>> pending_;

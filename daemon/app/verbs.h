@@ -14,5 +14,6 @@ int run_check(const Arguments& args);
 int run_replay(const Arguments& args);
 int run_demo(const Arguments& args);
 int run_state(const Arguments& args);
+int run_live(const Arguments& args);
 
 }  // namespace bw::app

@@ -17,10 +17,14 @@
 //               suppressed_when: {of: <signal>, below: <number>} or {of: <signal>, above: <number>}
 // Any numeric value in a template may name a parameter instead.
 // Site schema (see site_loader.h): site {name, time_zone}, rules [folders], assets {<name>:
-// {template, description, tags {role: tag}, parameters {name: value}}}.
+// {template, description, tags {role: tag}, parameters {name: value}}}, live {...} (live_spec.h).
+// A whole-number (int) member takes the number's value only when it has no fraction; every int
+// key gives both bounds.
 #pragma once
 
 #include <array>
+#include <cassert>
+#include <cmath>
 #include <optional>
 #include <span>
 #include <string>
@@ -30,6 +34,8 @@
 #include <vector>
 
 #include "config/field_reader.h"
+#include "config/live_spec.h"
+#include "config/quantity.h"
 #include "core/overloaded.h"
 #include "engine/site_model.h"
 
@@ -43,12 +49,12 @@ struct RangeMembers {
 };
 
 template <class Spec>
-using Member = std::variant<double Spec::*, bool Spec::*, std::string Spec::*,
-                            std::vector<std::string> Spec::*, std::optional<double> Spec::*,
-                            engine::BaselineSpec Spec::*, engine::Priority Spec::*,
-                            engine::LimitDirection Spec::*, engine::SignalOp Spec::*,
-                            engine::Measurement Spec::*, engine::RateDirection Spec::*,
-                            std::optional<engine::SuppressionSpec> Spec::*, RangeMembers<Spec>>;
+using Member = std::variant<
+    double Spec::*, int Spec::*, bool Spec::*, std::string Spec::*,
+    std::vector<std::string> Spec::*, std::optional<double> Spec::*, engine::BaselineSpec Spec::*,
+    engine::Priority Spec::*, engine::LimitDirection Spec::*, engine::SignalOp Spec::*,
+    engine::Measurement Spec::*, engine::RateDirection Spec::*,
+    std::optional<engine::SuppressionSpec> Spec::*, PayloadFormat Spec::*, RangeMembers<Spec>>;
 
 template <class Spec>
 struct Key {
@@ -90,6 +96,9 @@ inline constexpr std::array<std::pair<std::string_view, engine::Measurement>, 7>
     {"current", engine::Measurement::current},
     {"other", engine::Measurement::other},
 }};
+
+inline constexpr std::array<std::pair<std::string_view, PayloadFormat>, 2> kPayloadFormatNames{
+    {{"json", PayloadFormat::json}, {"sparkplug", PayloadFormat::sparkplug}}};
 
 inline constexpr Bounds kPercent{.min = 0.0, .max = 100.0};
 inline constexpr Bounds kAtLeastOne{.min = 1.0};
@@ -258,6 +267,66 @@ inline constexpr std::array<Key<engine::AssetSpec>, 2> kAssetKeys{{
     {"template", &engine::AssetSpec::template_name, kAnyValue, false, true},
     {"description", &engine::AssetSpec::description},
 }};
+
+// The `live:` section (live_spec.h); its nested mappings and lists are read by live_section.cpp.
+// MQTT keep alive is a 16-bit count of seconds (MQTT 3.1.1 section 3.1.2.10); 268435455 bytes
+// is the largest packet MQTT can frame (section 2.2.3).
+inline constexpr Bounds kMqttVersions{.min = 4.0, .max = 5.0};
+inline constexpr Bounds kKeepAlive{.min = 1.0, .max = 65535.0};
+inline constexpr Bounds kQos{.min = 0.0, .max = 1.0};
+inline constexpr Bounds kPayloadBytes{.min = 1.0, .max = 268435455.0};
+
+inline constexpr std::array<Key<LiveSpec>, 1> kLiveKeys{{
+    {"tick", &LiveSpec::tick_s, kPositive, true},
+}};
+
+inline constexpr std::array<Key<BrokerSpec>, 5> kBrokerKeys{{
+    {"uri", &BrokerSpec::uri, kAnyValue, false, true},
+    {"client_id", &BrokerSpec::client_id},
+    {"mqtt_version", &BrokerSpec::mqtt_version, kMqttVersions},
+    {"keep_alive", &BrokerSpec::keep_alive_s, kKeepAlive, true},
+    {"credentials_file", &BrokerSpec::credentials_file},
+}};
+
+inline constexpr std::array<Key<TlsSpec>, 3> kTlsKeys{{
+    {"ca_file", &TlsSpec::ca_file, kAnyValue, false, true},
+    {"cert_file", &TlsSpec::cert_file},
+    {"key_file", &TlsSpec::key_file},
+}};
+
+inline constexpr std::array<Key<BrokerSpec>, 2> kReconnectKeys{{
+    {"min", &BrokerSpec::reconnect_min_s, kPositive, true},
+    {"max", &BrokerSpec::reconnect_max_s, kPositive, true},
+}};
+
+// Exactly one of `topic` and `sparkplug_group` is given; live_section.cpp checks that.
+inline constexpr std::array<Key<InputRule>, 5> kInputRuleKeys{{
+    {"topic", &InputRule::topic},
+    {"sparkplug_group", &InputRule::sparkplug_group},
+    {"tag", &InputRule::tag_template},
+    {"format", &InputRule::format},
+    {"qos", &InputRule::qos, kQos},
+}};
+
+inline constexpr std::array<Key<DecodeLimitsSpec>, 3> kDecodeLimitsKeys{{
+    {"max_payload", &DecodeLimitsSpec::max_payload_bytes, kPayloadBytes},
+    {"max_future", &DecodeLimitsSpec::max_future_s, kPositive, true},
+    {"max_past", &DecodeLimitsSpec::max_past_s, kPositive, true},
+}};
+
+inline constexpr std::array<Key<OutputSpec>, 1> kOutputKeys{{
+    {"topic_prefix", &OutputSpec::topic_prefix},
+}};
+
+// `authorised` (required) is read by hand: its client ids are topic levels.
+inline constexpr std::array<Key<CommandSpec>, 1> kCommandKeys{{
+    {"topic", &CommandSpec::topic, kAnyValue, false, true},
+}};
+
+inline constexpr std::array<Key<StateSpec>, 2> kStateKeys{{
+    {"dir", &StateSpec::dir, kAnyValue, false, true},
+    {"checkpoint_every", &StateSpec::checkpoint_every_s, kPositive, true},
+}};
 // clang-format on
 
 // The names of a table's keys followed by `extra` names handled by hand.
@@ -304,6 +373,17 @@ bool read_keys(FieldReader& reader, const ConfigNode& map, const std::array<Key<
             [&](std::optional<double> Spec::*m) {
               if (auto v = reader.number(*value, what, key.bounds, key.duration)) out.*m = *v;
             },
+            [&](int Spec::*m) {
+              assert(key.bounds.min && key.bounds.max);  // keeps the cast below in range
+              auto number = reader.number(*value, what, key.bounds, key.duration);
+              if (number && *number != std::floor(*number)) {
+                reader.error(*value, what + ": must be a whole number" +
+                                         (key.duration ? " of seconds" : "") + ", got " +
+                                         format_number(*number));
+              } else if (number) {
+                out.*m = static_cast<int>(*number);
+              }
+            },
             [&](bool Spec::*m) { store(m, reader.flag(*value, what)); },
             [&](std::string Spec::*m) { store(m, reader.text(*value, what)); },
             [&](std::vector<std::string> Spec::*m) { store(m, reader.text_list(*value, what)); },
@@ -325,6 +405,9 @@ bool read_keys(FieldReader& reader, const ConfigNode& map, const std::array<Key<
             },
             [&](std::optional<engine::SuppressionSpec> Spec::*m) {
               read_suppression(reader, *value, what, out.*m);
+            },
+            [&](PayloadFormat Spec::*m) {
+              store(m, reader.choice<PayloadFormat>(*value, what, kPayloadFormatNames));
             },
             [&](RangeMembers<Spec> r) {
               if (auto range = read_range(reader, *value, what)) {

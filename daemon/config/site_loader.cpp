@@ -9,6 +9,7 @@
 #include <variant>
 
 #include "config/field_reader.h"
+#include "config/live_section.h"
 #include "config/schema.h"
 #include "config/source_text.h"
 #include "config/template_library.h"
@@ -20,7 +21,7 @@ namespace {
 
 namespace fs = std::filesystem;
 
-const std::vector<std::string_view> kSiteTopKeys{"site", "rules", "assets"};
+const std::vector<std::string_view> kSiteTopKeys{"site", "rules", "assets", "live"};
 const fs::path kSystemRuleFolder = "/usr/share/brinewatch/rules";
 
 // The error message for an unknown time zone, or nothing when the zone is known.
@@ -53,10 +54,10 @@ class SiteLoader {
     auto parsed = parse_yaml(source_);
     if (auto* error = std::get_if<Diagnostic>(&parsed)) {
       diagnostics_.push_back(std::move(*error));
-      return finish(std::nullopt);
+      return finish(std::nullopt, std::nullopt);
     }
     const ConfigNode& top = std::get<ConfigNode>(parsed);
-    if (!reader_.expect_map(top, "site file")) return finish(std::nullopt);
+    if (!reader_.expect_map(top, "site file")) return finish(std::nullopt, std::nullopt);
     reader_.check_keys(top, kSiteTopKeys, "site file");
 
     engine::SiteSpec site;
@@ -73,7 +74,11 @@ class SiteLoader {
     if (const ConfigNode* assets = reader_.require(top, "assets", "site file")) {
       read_assets(*assets, site);
     }
-    return finish(std::move(site));
+    std::optional<LiveSpec> live;
+    if (const ConfigNode* section = top.find("live")) {
+      live = read_live_section(reader_, *section, site.name, base_folder_);
+    }
+    return finish(std::move(site), std::move(live));
   }
 
  private:
@@ -228,7 +233,7 @@ class SiteLoader {
   }
 
   // A template error is found again for every asset that uses the template: keep the first.
-  LoadResult finish(std::optional<engine::SiteSpec> site) {
+  LoadResult finish(std::optional<engine::SiteSpec> site, std::optional<LiveSpec> live) {
     LoadResult result;
     std::set<std::tuple<std::string, int, int, std::string>> seen;
     for (auto& d : diagnostics_) {
@@ -236,7 +241,10 @@ class SiteLoader {
         result.diagnostics.push_back(std::move(d));
       }
     }
-    if (result.diagnostics.empty()) result.site = std::move(site);
+    if (result.diagnostics.empty()) {
+      result.site = std::move(site);
+      result.live = std::move(live);
+    }
     return result;
   }
 

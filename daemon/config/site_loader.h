@@ -15,6 +15,8 @@
 //                              may feed several assets and several roles
 //       parameters: {high_level: 20.5} overrides of template parameters, within their min/max;
 //                              a duration is allowed when the parameter's unit is "s"
+//   live:                      optional; the broker, topics and state of `brinewatch run`
+//                              (schema in live_spec.h, checks in live_section.h)
 //
 // Template folders are searched in this order: the site's `rules:` folders, then the folders
 // passed by the caller; load_site() adds, only when neither gives any folder, the folder `rules`
@@ -35,6 +37,7 @@
 #include <vector>
 
 #include "config/diagnostic.h"
+#include "config/live_spec.h"
 #include "config/site_description.h"  // describe_site(), the usual companion of a load
 #include "engine/site_model.h"
 
@@ -42,6 +45,7 @@ namespace bw::config {
 
 struct LoadResult {
   std::optional<engine::SiteSpec> site;  // set exactly when diagnostics is empty
+  std::optional<LiveSpec> live;          // set when diagnostics is empty and the file has `live:`
   std::vector<Diagnostic> diagnostics;
   bool ok() const { return site.has_value() && diagnostics.empty(); }
 };

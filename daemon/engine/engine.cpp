@@ -12,7 +12,6 @@ namespace {
 
 constexpr std::uint8_t kEngineStateVersion = 1;
 constexpr std::string_view kAssetScopePrefix = "asset:";
-constexpr std::string_view kBookScope = "alert_book";
 constexpr std::string_view kEngineScope = "engine";
 
 // Counts transitions on their way to the caller's sink.
@@ -146,7 +145,7 @@ std::vector<EngineCheckpoint> Engine::checkpoint() const {
   }
   StateWriter book;
   book_.save(book);
-  out.push_back({std::string(kBookScope), site_->name, book.take()});
+  out.push_back({std::string(kAlertBookScope), site_->name, book.take()});
   StateWriter engine;
   engine.put_u8(kEngineStateVersion);
   engine.put_optional_time(clock_);
@@ -173,7 +172,7 @@ RestoreReport Engine::restore(const std::vector<EngineCheckpoint>& saved) {
         }
         take(c, fits);
       }
-    } else if (c.scope == kBookScope) {
+    } else if (c.scope == kAlertBookScope) {
       StateReader r(c.state);
       take(c, book_.load(r) && r.finished());
     } else if (c.scope == kEngineScope) {

@@ -72,6 +72,7 @@ class Engine {
   static constexpr std::size_t kMaxListedUnknownTags = 20;
   static constexpr auto kAdvanceStep = std::chrono::seconds(1);
   static constexpr std::string_view kDaemonAsset = "brinewatch";
+  static constexpr std::string_view kAlertBookScope = "alert_book";
   // state_store_reset: the state database was damaged, moved aside, and started afresh.
   static constexpr std::array<std::string_view, 1> kDaemonChecks = {"state_store_reset"};
 

@@ -1,10 +1,11 @@
-#include "core/utc_text.h"
 #include "io/alert_log.h"
 
 #include <cerrno>
+#include <cstdio>
 #include <cstring>
 #include <memory>
 
+#include "core/utc_text.h"
 #include "io/json_text.h"
 
 namespace bw::io {
@@ -64,8 +65,31 @@ std::string alert_to_json(const engine::AlertTransition& t) {
     append_json_number(out, t.forecast->limit);
     out.push_back('}');
   }
+  field("id");
+  append_json_string(out, alert_id(t));
   out.push_back('}');
   return out;
+}
+
+std::string alert_id(const engine::AlertTransition& t) {
+  std::uint64_t hash = 0xcbf29ce484222325ull;
+  auto mix = [&hash](std::string_view bytes) {
+    for (unsigned char c : bytes) {
+      hash ^= c;
+      hash *= 0x100000001b3ull;
+    }
+    hash ^= 0xff;  // a separator no text byte sequence can fake across field boundaries
+    hash *= 0x100000001b3ull;
+  };
+  mix(t.site);
+  mix(t.asset);
+  mix(t.check);
+  mix(engine::to_string(t.event));
+  mix(std::to_string(t.time.time_since_epoch().count()));
+  mix(t.message);
+  char text[17];
+  std::snprintf(text, sizeof text, "%016llx", static_cast<unsigned long long>(hash));
+  return text;
 }
 
 Result<std::unique_ptr<AlertLog>> AlertLog::open(const std::filesystem::path& path, Mode mode,

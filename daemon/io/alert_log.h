@@ -4,8 +4,8 @@
 // event (see engine::AlertEvent: "raised", "cleared", "acknowledged", "shelved", ...), priority
 // ("low" / "medium" / "high" / "urgent"), value, unit, tag, message, state and previous_state
 // (ISA-18.2 states: "normal", "unacknowledged", ...), cause ("sample", "silence", "command",
-// "shelve_expiry", "restore"), for commands who, reason and source, and for look-ahead checks
-// forecast {crossing, crossing_early, crossing_late, limit}. Output is buffered; flush() or destruction writes it out. A write failure is sticky
+// "shelve_expiry", "restore"), for commands who, reason and source, for look-ahead checks
+// forecast {crossing, crossing_early, crossing_late, limit}, and last id (see alert_id()). Output is buffered; flush() or destruction writes it out. A write failure is sticky
 // and reported by ok().
 #pragma once
 
@@ -20,6 +20,11 @@ namespace bw::io {
 
 // The JSON object for one transition, without a trailing newline.
 std::string alert_to_json(const engine::AlertTransition& transition);
+
+// A stable identity for one transition: 16 hex digits of a 64-bit FNV-1a hash of site, asset,
+// check, event, time and message. The same transition gets the same id live, in replay, and
+// when it is published again after a reconnect, so consumers can drop duplicates.
+std::string alert_id(const engine::AlertTransition& transition);
 
 class AlertLog final : public engine::AlertSink {
  public:

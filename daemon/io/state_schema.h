@@ -7,7 +7,7 @@
 // kMigrations[0..N-1] have been applied. Each migration runs in its own transaction together
 // with the user_version bump, so a file is always at exactly one version.
 //
-// Tables (version 2):
+// Tables (version 3):
 //   journal      One row per alert transition or command, in the order they happened.
 //                seq          INTEGER PRIMARY KEY  assigned by the store: 1, 2, 3... no gaps
 //                time_us      INTEGER  event time, microseconds since 1970-01-01 UTC
@@ -22,6 +22,11 @@
 //   meta         Small named settings of the store itself (since version 2).
 //                key TEXT PRIMARY KEY (not ''), value TEXT
 //   index journal_by_alert on journal(asset, check_name, seq) (since version 2)
+//   outbox       Messages to publish, written in the same transaction as the journal entries
+//                they come from and deleted only once the broker acknowledged them (since 3).
+//                id INTEGER PRIMARY KEY AUTOINCREMENT (publish order; never reused), topic TEXT
+//                (not ''), payload BLOB, qos INTEGER (0 or 1), retained INTEGER (0/1),
+//                created_us INTEGER
 //
 // The column is called check_name because CHECK is an SQL keyword. Needs SQLite 3.24 or later
 // (INSERT ... ON CONFLICT DO UPDATE).
@@ -33,7 +38,7 @@
 namespace bw::io::state_schema {
 
 // kMigrations[i] takes a file from version i to version i + 1.
-inline constexpr std::array<std::string_view, 2> kMigrations = {
+inline constexpr std::array<std::string_view, 3> kMigrations = {
     // 0 -> 1: the journal, alert states and checkpoints.
     R"sql(
 CREATE TABLE journal (
@@ -74,6 +79,17 @@ CREATE TABLE meta (
   value TEXT NOT NULL
 );
 CREATE INDEX journal_by_alert ON journal (asset, check_name, seq);
+)sql",
+    // 2 -> 3: messages waiting to be published, in order; deleted once the broker has them.
+    R"sql(
+CREATE TABLE outbox (
+  id INTEGER PRIMARY KEY AUTOINCREMENT,
+  topic TEXT NOT NULL CONSTRAINT outbox_topic_not_empty CHECK (topic <> ''),
+  payload BLOB NOT NULL,
+  qos INTEGER NOT NULL CONSTRAINT outbox_qos_0_or_1 CHECK (qos IN (0, 1)),
+  retained INTEGER NOT NULL,
+  created_us INTEGER NOT NULL
+);
 )sql",
 };
 

@@ -345,9 +345,54 @@ Result<std::int64_t> StateStore::commit(const Batch& batch) {
       if (!done) return done.error();
     }
   }
+  if (!batch.outbox.empty()) {
+    auto insert = SqliteStatement::prepare(
+        db, "INSERT INTO outbox (topic, payload, qos, retained, created_us) "
+            "VALUES (?1, ?2, ?3, ?4, ?5)");
+    if (!insert) return insert.error();
+    for (const OutboxMessage& message : batch.outbox) {
+      insert->bind_text(1, message.topic);
+      insert->bind_blob(2, message.payload);
+      insert->bind_int(3, message.qos);
+      insert->bind_int(4, message.retained ? 1 : 0);
+      insert->bind_int(5, message.created_us);
+      auto done = run_to_end(insert.value());
+      if (!done) return done.error();
+    }
+  }
+  if (!batch.delivered.empty()) {
+    auto remove = SqliteStatement::prepare(db, "DELETE FROM outbox WHERE id = ?1");
+    if (!remove) return remove.error();
+    for (std::int64_t id : batch.delivered) {
+      remove->bind_int(1, id);
+      auto done = run_to_end(remove.value());
+      if (!done) return done.error();
+    }
+  }
   auto committed = transaction->commit();
   if (!committed) return committed.error();
   return seq;
+}
+
+Result<std::vector<OutboxMessage>> StateStore::read_outbox(std::int64_t after_id,
+                                                           std::size_t limit) const {
+  auto select = SqliteStatement::prepare(
+      *connection_,
+      "SELECT id, topic, payload, qos, retained, created_us FROM outbox WHERE id > ?1 "
+      "ORDER BY id LIMIT ?2");
+  if (!select) return select.error();
+  select->bind_int(1, after_id);
+  constexpr auto kNoLimit = static_cast<std::size_t>(std::numeric_limits<std::int64_t>::max());
+  select->bind_int(2, static_cast<std::int64_t>(std::min(limit, kNoLimit)));
+  std::vector<OutboxMessage> messages;
+  for (;;) {
+    auto row = select->step();
+    if (!row) return row.error();
+    if (!row.value()) return messages;
+    messages.push_back({select->column_int(0), select->column_text(1), select->column_blob(2),
+                        static_cast<int>(select->column_int(3)), select->column_int(4) != 0,
+                        select->column_int(5)});
+  }
 }
 
 Result<std::vector<AlertRecord>> StateStore::load_alerts() const {

@@ -80,6 +80,18 @@ struct Checkpoint {
   bool operator==(const Checkpoint&) const = default;
 };
 
+// A message waiting in the outbox; id is assigned by the store (ignored on input).
+struct OutboxMessage {
+  std::int64_t id = 0;
+  std::string topic;
+  std::string payload;
+  int qos = 1;
+  bool retained = false;
+  std::int64_t created_us = 0;
+
+  bool operator==(const OutboxMessage&) const = default;
+};
+
 struct StoreOpenReport {
   bool created = false;  // the store holds nothing from before (new, empty or replaced file)
   std::optional<std::filesystem::path> moved_aside;  // where a damaged file was moved to
@@ -98,9 +110,12 @@ class StateStore {
     std::vector<AlertRecord> alerts;      // inserted or replaced by (asset, check)
     std::vector<Checkpoint> checkpoints;  // inserted or replaced by scope
     std::vector<std::pair<std::string, std::string>> meta;  // key -> value, replaced
+    std::vector<OutboxMessage> outbox;       // appended in order, id assigned
+    std::vector<std::int64_t> delivered;     // outbox ids to delete (the broker has them)
 
     bool empty() const {
-      return journal.empty() && alerts.empty() && checkpoints.empty() && meta.empty();
+      return journal.empty() && alerts.empty() && checkpoints.empty() && meta.empty() &&
+             outbox.empty() && delivered.empty();
     }
   };
 
@@ -125,6 +140,8 @@ class StateStore {
   // At most `limit` entries with seq > after_seq, in seq order.
   Result<std::vector<JournalEntry>> read_journal(std::int64_t after_seq, std::size_t limit) const;
   Result<std::optional<std::string>> meta(const std::string& key) const;
+  // At most `limit` outbox messages with id > after_id, oldest first.
+  Result<std::vector<OutboxMessage>> read_outbox(std::int64_t after_id, std::size_t limit) const;
   // The seq of the newest journal entry, 0 when there is none.
   Result<std::int64_t> last_seq() const;
 

@@ -198,6 +198,42 @@ TEST(StateStore, JournalSeqIsContiguousAcrossReopens) {
   EXPECT_EQ(store->last_seq().value(), 30);
 }
 
+// The outbox keeps messages in publish order until the broker has them; ids are never reused,
+// so a consumer can tell a re-sent message from a new one.
+TEST(StateStore, OutboxKeepsOrderAcrossReopensAndNeverReusesIds) {
+  ScratchDir scratch;
+  {
+    auto store = open_ok(scratch.path());
+    ASSERT_NE(store, nullptr);
+    StateStore::Batch b;
+    for (int i = 0; i < 3; ++i) {
+      b.outbox.push_back({.topic = "site/alerts", .payload = "m" + std::to_string(i), .qos = 1,
+                          .retained = i == 2, .created_us = 100 + i});
+    }
+    ASSERT_TRUE(store->commit(b).ok());
+  }
+  auto store = open_ok(scratch.path());
+  ASSERT_NE(store, nullptr);
+  auto waiting = store->read_outbox(0, 100);
+  ASSERT_TRUE(waiting.ok());
+  ASSERT_EQ(waiting->size(), 3u);
+  EXPECT_EQ(waiting.value()[0].payload, "m0");
+  EXPECT_EQ(waiting.value()[2].payload, "m2");
+  EXPECT_TRUE(waiting.value()[2].retained);
+  EXPECT_LT(waiting.value()[0].id, waiting.value()[1].id);
+
+  StateStore::Batch delivered;
+  delivered.delivered = {waiting.value()[0].id, waiting.value()[1].id, waiting.value()[2].id};
+  delivered.outbox.push_back({.topic = "site/alerts", .payload = "m3", .qos = 1, .created_us = 200});
+  ASSERT_TRUE(store->commit(delivered).ok());
+  auto after = store->read_outbox(0, 100);
+  ASSERT_TRUE(after.ok());
+  ASSERT_EQ(after->size(), 1u);
+  EXPECT_EQ(after.value()[0].payload, "m3");
+  EXPECT_GT(after.value()[0].id, waiting.value()[2].id);
+  EXPECT_TRUE(store->read_outbox(after.value()[0].id, 100)->empty());
+}
+
 TEST(StateStore, CommitWithoutJournalReturnsThePreviousLastSeq) {
   ScratchDir scratch;
   auto store = open_ok(scratch.path());
@@ -464,7 +500,7 @@ void expect_migrated_from_1_with_data(const fs::path& dir, const JournalEntry& f
   EXPECT_FALSE(report.created);
   EXPECT_FALSE(report.moved_aside);
   EXPECT_EQ(report.migrated_from, 1);
-  EXPECT_EQ(report.schema_version, 2);
+  EXPECT_EQ(report.schema_version, state_schema::kCurrentVersion);
   const auto journal = whole_journal(*store);
   ASSERT_EQ(journal.size(), 2u);
   EXPECT_EQ(journal[0], first_entry);
@@ -475,11 +511,14 @@ void expect_migrated_from_1_with_data(const fs::path& dir, const JournalEntry& f
   const auto checkpoints = store->load_checkpoints().value();
   ASSERT_EQ(checkpoints.size(), 1u);
   EXPECT_EQ(checkpoints[0].definition_hash, "3f9a0c12");
-  // What version 2 added works, and the journal continues where version 1 left it.
-  EXPECT_EQ(store->commit({{first_entry}, {}, {}, {{"migrated", "yes"}}}).value(), 3);
+  // What versions 2 and 3 added works, and the journal continues where version 1 left it.
+  StateStore::Batch batch{{first_entry}, {}, {}, {{"migrated", "yes"}}};
+  batch.outbox.push_back({.topic = "filter_1/alerts", .payload = "{}", .qos = 1});
+  EXPECT_EQ(store->commit(batch).value(), 3);
   EXPECT_EQ(store->meta("migrated").value(), std::optional<std::string>("yes"));
+  EXPECT_EQ(store->read_outbox(0, 10).value().size(), 1u);
   RawDatabase raw(store->path());
-  EXPECT_EQ(raw.text("PRAGMA user_version"), "2");
+  EXPECT_EQ(raw.text("PRAGMA user_version"), std::to_string(state_schema::kCurrentVersion));
   EXPECT_EQ(raw.text("SELECT name FROM sqlite_master WHERE type = 'index' AND sql IS NOT NULL"),
             "journal_by_alert");
   EXPECT_EQ(raw.text("PRAGMA integrity_check"), "ok");
