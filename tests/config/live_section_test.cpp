@@ -40,7 +40,7 @@ TEST(LiveExample, TheExampleSiteLiveSectionLoadsWithTheValuesWritten) {
 
   ASSERT_EQ(live.inputs.size(), 2u);
   EXPECT_EQ(live.inputs[0].topic, "tumbleweed/drycreek4/+/+");
-  EXPECT_EQ(live.inputs[0].tag_template, "{2}.{3}");
+  EXPECT_EQ(live.inputs[0].tag_template, "DC4.{2}.{3}");
   EXPECT_EQ(live.inputs[0].format, PayloadFormat::json);
   EXPECT_EQ(live.inputs[0].qos, 1);
   EXPECT_EQ(live.inputs[1].topic, "spBv1.0/DryCreek/#");
