@@ -1,5 +1,5 @@
 // The demo's site file and rule template, compiled into the executable from
-// config-examples/dry-creek-swd4.yaml and rules/tank_level.yaml.
+// config-examples/dry-creek-swd4-tanks.yaml and rules/tank_level.yaml.
 #pragma once
 
 #include <string_view>

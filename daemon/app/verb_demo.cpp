@@ -64,7 +64,7 @@ int run_demo(const Arguments& args) {
   }
   // The same layout as the source tree, so the site's "rules: [../rules]" finds the template.
   const fs::path root(dir);
-  const fs::path site = root / "config-examples" / "dry-creek-swd4.yaml";
+  const fs::path site = root / "config-examples" / "dry-creek-swd4-tanks.yaml";
   const fs::path history = root / "history" / "dry-creek-swd4.csv";
   const fs::path alerts = root / "alerts.jsonl";
   if (!write_file(site, kDemoSiteYaml) ||

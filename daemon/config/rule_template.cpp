@@ -111,13 +111,14 @@ std::optional<Variant> read_kind_of(FieldReader& reader, const ConfigNode& map,
   }
 }
 
-const std::array<EstimatorReader, 6> kEstimatorReaders{{
+const std::array<EstimatorReader, 7> kEstimatorReaders{{
     {"ewma", &read_kind_of<engine::EstimatorKind, kEwmaKeys>},
     {"cusum", &read_kind_of<engine::EstimatorKind, kCusumKeys>},
     {"ewma_chart", &read_kind_of<engine::EstimatorKind, kEwmaChartKeys>},
     {"rls", &read_kind_of<engine::EstimatorKind, kRlsKeys>},
     {"trend", &read_kind_of<engine::EstimatorKind, kTrendKeys>},
     {"rate", &read_kind_of<engine::EstimatorKind, kRateKeys>},
+    {"hall", &read_kind_of<engine::EstimatorKind, kHallKeys>},
 }};
 
 const std::array<CheckReader, 8> kCheckReaders{{

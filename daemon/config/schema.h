@@ -11,7 +11,8 @@
 //   parameters: {<name>: {default, unit, description, min, max}}   default: number or duration
 //   inputs:     {<role>: kInputKeys}
 //   signals:    {<name>: kSignalKeys}          op: linear, sum, difference, product, ratio
-//   estimators: {<name>: {kind, ...}}          kind: ewma, cusum, ewma_chart, rls, trend, rate
+//   estimators: {<name>: {kind, ...}}          kind: ewma, cusum, ewma_chart, rls, trend, rate,
+//                                                    hall
 //   checks:     {<name>: {kind, priority, message, latching, suppressed_when, ...}}
 //               kind: limit, statistical, time_to_limit, rate, stale, flatline, out_of_range, ne43
 //               suppressed_when: {of: <signal>, below: <number>} or {of: <signal>, above: <number>}
@@ -53,7 +54,7 @@ using Member = std::variant<
     double Spec::*, int Spec::*, bool Spec::*, std::string Spec::*,
     std::vector<std::string> Spec::*, std::optional<double> Spec::*, engine::BaselineSpec Spec::*,
     engine::Priority Spec::*, engine::LimitDirection Spec::*, engine::SignalOp Spec::*,
-    engine::Measurement Spec::*, engine::RateDirection Spec::*,
+    engine::Measurement Spec::*, engine::RateDirection Spec::*, engine::HallWindowBasis Spec::*,
     std::optional<engine::SuppressionSpec> Spec::*, PayloadFormat Spec::*, RangeMembers<Spec>>;
 
 template <class Spec>
@@ -96,6 +97,10 @@ inline constexpr std::array<std::pair<std::string_view, engine::Measurement>, 7>
     {"current", engine::Measurement::current},
     {"other", engine::Measurement::other},
 }};
+
+inline constexpr std::array<std::pair<std::string_view, engine::HallWindowBasis>, 2>
+    kHallBasisNames{
+        {{"volume", engine::HallWindowBasis::volume}, {"time", engine::HallWindowBasis::time}}};
 
 inline constexpr std::array<std::pair<std::string_view, PayloadFormat>, 2> kPayloadFormatNames{
     {{"json", PayloadFormat::json}, {"sparkplug", PayloadFormat::sparkplug}}};
@@ -194,6 +199,17 @@ inline constexpr std::array<Key<engine::TrendSpec>, 2> kTrendKeys{{
 inline constexpr std::array<Key<engine::RateSpec>, 2> kRateKeys{{
     {"of", &engine::RateSpec::of, kAnyValue, false, true},
     {"time_constant", &engine::RateSpec::time_constant_s, kNonNegative, true},
+}};
+
+// window: bbl with basis volume, days with basis time (a plain number either way).
+inline constexpr std::array<Key<engine::HallSpec>, 7> kHallKeys{{
+    {"injection_pressure", &engine::HallSpec::injection_pressure, kAnyValue, false, true},
+    {"rate", &engine::HallSpec::rate, kAnyValue, false, true},
+    {"reference_pressure", &engine::HallSpec::reference_pressure_psi, kAnyValue, false, true},
+    {"window", &engine::HallSpec::window, kNonNegative},
+    {"basis", &engine::HallSpec::basis},
+    {"max_interval", &engine::HallSpec::max_interval_s, kNonNegative, true},
+    {"learn", &engine::HallSpec::learn_s, kNonNegative, true},
 }};
 
 // Keys every check has besides `kind`.
@@ -402,6 +418,9 @@ bool read_keys(FieldReader& reader, const ConfigNode& map, const std::array<Key<
             },
             [&](engine::RateDirection Spec::*m) {
               store(m, reader.choice<engine::RateDirection>(*value, what, kRateDirectionNames));
+            },
+            [&](engine::HallWindowBasis Spec::*m) {
+              store(m, reader.choice<engine::HallWindowBasis>(*value, what, kHallBasisNames));
             },
             [&](std::optional<engine::SuppressionSpec> Spec::*m) {
               read_suppression(reader, *value, what, out.*m);

@@ -38,6 +38,11 @@ std::string unit_of(const engine::AssetSpec& asset, const std::string& ref) {
     if (output == "per_hour" || output == "slope_per_hour") return base + "/h";
     if (output == "residual_percent") return "%";
     if (output == "upper" || output == "lower") return "sigma";
+    if (output == "slope_change_percent") return "%";
+    if (output == "integral") return "psi*d";
+    if (output == "volume") return "bbl";
+    if (output == "slope") return "psi*d/bbl";
+    if (output == "injectivity") return "bbl/d/psi";
     return base;
   }
   return "";
@@ -98,6 +103,13 @@ std::string describe_estimator(const engine::EstimatorSpec& e) {
           },
           [](const engine::RateSpec& s) {
             return "time constant " + format_duration(s.time_constant_s);
+          },
+          [](const engine::HallSpec& s) {
+            const bool volume = s.basis == engine::HallWindowBasis::volume;
+            return "reference pressure " + format_number(s.reference_pressure_psi) + " psi, " +
+                   (s.window > 0 ? "window " + format_number(s.window) + (volume ? " bbl" : " d")
+                                 : std::string("whole history")) +
+                   ", baseline slope after " + format_duration(s.learn_s);
           },
       },
       e.kind);

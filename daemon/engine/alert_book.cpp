@@ -101,6 +101,16 @@ void AlertBook::on_change(std::string_view asset, const ConditionChange& change,
 
 void AlertBook::advance(core::SensorTime now, AlertSink& out) {
   if (!now_ || now > *now_) now_ = now;  // time never runs backwards for the book
+  if (shelves_changed_) {
+    next_expiry_.reset();
+    for (const auto& entry : entries_) {
+      const auto& shelve = entry.lifecycle.shelve();
+      if (shelve && (!next_expiry_ || shelve->until < *next_expiry_)) next_expiry_ = shelve->until;
+    }
+    shelves_changed_ = false;
+  }
+  if (!next_expiry_ || *next_expiry_ > *now_) return;
+  shelves_changed_ = true;  // some run out now; find the next one afterwards
   std::vector<std::pair<core::SensorTime, std::size_t>> due;
   for (std::size_t i = 0; i < entries_.size(); ++i) {
     const auto& shelve = entries_[i].lifecycle.shelve();
@@ -196,6 +206,11 @@ CommandReply AlertBook::refuse(const AlertCommand& command, const Entry* entry, 
 }
 
 CommandReply AlertBook::execute(const AlertCommand& command, AlertSink& out) {
+  // Whatever the command did, the next advance() looks at the shelves afresh.
+  struct MarkShelvesChanged {
+    bool& flag;
+    ~MarkShelvesChanged() { flag = true; }
+  } mark{shelves_changed_};
   advance(command.issued, out);
   const std::vector<Entry*> chosen = targets(command);
   if (auto why = precheck(command, !chosen.empty())) {
@@ -258,6 +273,7 @@ void AlertBook::save(StateWriter& out) const {
 }
 
 bool AlertBook::load(StateReader& in) {
+  shelves_changed_ = true;
   if (in.get_u8() != kStateVersion) {
     in.fail();
     return false;

@@ -124,6 +124,10 @@ class AlertBook {
   std::deque<Entry> entries_;  // definition order; a deque never moves its elements
   std::map<std::string, std::size_t, std::less<>> index_;  // key(asset, check) -> entries_
   std::optional<core::SensorTime> now_;
+  // The earliest shelve expiry, valid while !shelves_changed_ (commands and load() change
+  // shelves): advance() runs once per sample in replay and mostly has nothing to do.
+  std::optional<core::SensorTime> next_expiry_;
+  bool shelves_changed_ = true;
 };
 
 }  // namespace bw::engine

@@ -184,10 +184,13 @@ void AssetEvaluator::on_sample(std::size_t input_index, double value, Quality qu
     if (!signals_.fresh(check.trigger_slot) || held(check)) continue;
     if (auto outcome = check.node->evaluate(t)) publish(check, std::move(*outcome), t, tag, sink);
   }
+  deadlines_changed_ = true;  // a sample may start or cancel delays and silences
 }
 
 void AssetEvaluator::advance(core::SensorTime now, ConditionSink& sink) {
   start_clock(now);
+  // Nothing changed since the last scan and nothing falls due yet: the common case, per sample.
+  if (!deadlines_changed_ && (!next_due_ || now < *next_due_)) return;
   for (;;) {
     std::optional<core::SensorTime> earliest;
     std::size_t index = 0;
@@ -209,7 +212,10 @@ void AssetEvaluator::advance(core::SensorTime now, ConditionSink& sink) {
       if (input.silence.count() > 0 && !input.silent)
         consider(input.heard + input.silence, i, true);
     }
-    if (!earliest) return;
+    if (!earliest) {
+      remember_next_due();
+      return;
+    }
     if (is_input) {
       inputs_[index].silent = true;
       hold_dependents(index);
@@ -220,6 +226,21 @@ void AssetEvaluator::advance(core::SensorTime now, ConditionSink& sink) {
     assert(!check.node->deadline() || *check.node->deadline() > *earliest);
     if (outcome) publish(check, std::move(*outcome), *earliest, check.tag, sink);
   }
+}
+
+void AssetEvaluator::remember_next_due() {
+  next_due_.reset();
+  auto keep = [&](core::SensorTime due) {
+    if (!next_due_ || due < *next_due_) next_due_ = due;
+  };
+  for (const auto& check : checks_) {
+    if (held(check)) continue;
+    if (auto due = check.node->deadline()) keep(*due);
+  }
+  for (const auto& input : inputs_) {
+    if (input.silence.count() > 0 && !input.silent) keep(input.heard + input.silence);
+  }
+  deadlines_changed_ = false;
 }
 
 void AssetEvaluator::note_quality(std::size_t input_index, bool usable, double value,
@@ -327,6 +348,7 @@ void AssetEvaluator::save(StateWriter& out) const {
 }
 
 bool AssetEvaluator::load(StateReader& in) {
+  deadlines_changed_ = true;
   if (in.get_u8() != kStateVersion || !signals_.load(in)) {
     in.fail();
     return false;

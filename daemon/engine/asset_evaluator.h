@@ -107,6 +107,8 @@ class AssetEvaluator {
 
   void compile();
   void start_clock(core::SensorTime t);
+  // Scans every check and input for the earliest deadline still to come.
+  void remember_next_due();
   bool held(const CheckStep& check) const;
   void hold_dependents(std::size_t input);
   void note_quality(std::size_t input, bool usable, double value, Quality quality,
@@ -125,6 +127,10 @@ class AssetEvaluator {
   std::vector<InputState> inputs_;
   std::vector<CheckStep> checks_;
   std::vector<std::vector<std::size_t>> check_plans_;  // per input: checks it can trigger
+  // The earliest moment time-driven work falls due, valid while !deadlines_changed_: lets
+  // advance() return at once on the many calls (one per sample of the site) with nothing due.
+  std::optional<core::SensorTime> next_due_;
+  bool deadlines_changed_ = true;
 };
 
 }  // namespace bw::engine

@@ -19,6 +19,8 @@ constexpr std::array<std::string_view, 3> kRlsOutputs{"prediction", "residual",
                                                       "residual_percent"};
 constexpr std::array<std::string_view, 2> kTrendOutputs{"level", "slope_per_hour"};
 constexpr std::array<std::string_view, 1> kRateOutputs{"per_hour"};
+constexpr std::array<std::string_view, 5> kHallOutputs{"integral", "volume", "slope", "injectivity",
+                                                       "slope_change_percent"};
 
 // Resolves names to graph nodes and walks the graph depth first.
 class Analyser {
@@ -289,6 +291,7 @@ std::string_view estimator_kind_name(const EstimatorKind& kind) {
                         [](const RlsSpec&) { return std::string_view("rls"); },
                         [](const TrendSpec&) { return std::string_view("trend"); },
                         [](const RateSpec&) { return std::string_view("rate"); },
+                        [](const HallSpec&) { return std::string_view("hall"); },
                     },
                     kind);
 }
@@ -301,6 +304,7 @@ std::span<const std::string_view> estimator_outputs(const EstimatorKind& kind) {
                         [](const RlsSpec&) { return std::span<const std::string_view>(kRlsOutputs); },
                         [](const TrendSpec&) { return std::span<const std::string_view>(kTrendOutputs); },
                         [](const RateSpec&) { return std::span<const std::string_view>(kRateOutputs); },
+                        [](const HallSpec&) { return std::span<const std::string_view>(kHallOutputs); },
                     },
                     kind);
 }
@@ -311,6 +315,9 @@ std::vector<std::string> estimator_inputs(const EstimatorKind& kind) {
                           std::vector<std::string> all{s.target};
                           all.insert(all.end(), s.regressors.begin(), s.regressors.end());
                           return all;
+                        },
+                        [](const HallSpec& s) {
+                          return std::vector<std::string>{s.injection_pressure, s.rate};
                         },
                         [](const auto& s) { return std::vector<std::string>{s.of}; },
                     },

@@ -46,13 +46,15 @@ AssetGraph analyse_asset(const AssetSpec& asset);
 // Operation names as written in rule templates ("linear", "sum", "difference", ...).
 std::string_view signal_op_name(SignalOp op);
 
-// Kind names as written in rule templates ("ewma", "cusum", "ewma_chart", "rls", "trend", "rate").
+// Kind names as written in rule templates ("ewma", "cusum", "ewma_chart", "rls", "trend", "rate",
+// "hall").
 std::string_view estimator_kind_name(const EstimatorKind& kind);
 
 // The outputs an estimator kind publishes as signals "<estimator>.<output>".
 std::span<const std::string_view> estimator_outputs(const EstimatorKind& kind);
 
-// Signals an estimator reads, in the order it reads them (target first for rls).
+// Signals an estimator reads, in the order it reads them (target first for rls; injection
+// pressure, then rate, for hall).
 std::vector<std::string> estimator_inputs(const EstimatorKind& kind);
 
 }  // namespace bw::engine

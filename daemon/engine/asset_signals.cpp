@@ -13,7 +13,11 @@ constexpr std::uint8_t kStateVersion = 1;
 // The unit of an estimator output, given the unit of the signal it watches.
 std::string output_unit(std::string_view output, const std::string& input_unit) {
   if (output == "slope_per_hour" || output == "per_hour") return input_unit + "/h";
-  if (output == "residual_percent") return "%";
+  if (output == "residual_percent" || output == "slope_change_percent") return "%";
+  if (output == "integral") return "psi*d";
+  if (output == "volume") return "bbl";
+  if (output == "slope") return "psi*d/bbl";
+  if (output == "injectivity") return "bbl/d/psi";
   if (output == "upper" || output == "lower") return "sigma";
   return input_unit;
 }

@@ -100,30 +100,58 @@ bool get(StateReader& in, core::Rls::State& s) {
   return get(in, s.residual) && get(in, s.gate);
 }
 
+void put(StateWriter& out, const core::WeightedLinearFit::State& s) {
+  out.put_double(s.sum_w);
+  out.put_double(s.sum_w2);
+  out.put_double(s.mean_x);
+  out.put_double(s.mean_y);
+  out.put_double(s.sxx);
+  out.put_double(s.sxy);
+  out.put_double(s.syy);
+  out.put_i64(s.count);
+}
+
+bool get(StateReader& in, core::WeightedLinearFit::State& s) {
+  s.sum_w = in.get_double();
+  s.sum_w2 = in.get_double();
+  s.mean_x = in.get_double();
+  s.mean_y = in.get_double();
+  s.sxx = in.get_double();
+  s.sxy = in.get_double();
+  s.syy = in.get_double();
+  s.count = in.get_i64();
+  return in.ok();
+}
+
 void put(StateWriter& out, const core::LinearTrend::State& s) {
-  out.put_double(s.fit.sum_w);
-  out.put_double(s.fit.sum_w2);
-  out.put_double(s.fit.mean_x);
-  out.put_double(s.fit.mean_y);
-  out.put_double(s.fit.sxx);
-  out.put_double(s.fit.sxy);
-  out.put_double(s.fit.syy);
-  out.put_i64(s.fit.count);
+  put(out, s.fit);
   out.put_i64(s.origin_us);
   put(out, s.gate);
 }
 
 bool get(StateReader& in, core::LinearTrend::State& s) {
-  s.fit.sum_w = in.get_double();
-  s.fit.sum_w2 = in.get_double();
-  s.fit.mean_x = in.get_double();
-  s.fit.mean_y = in.get_double();
-  s.fit.sxx = in.get_double();
-  s.fit.sxy = in.get_double();
-  s.fit.syy = in.get_double();
-  s.fit.count = in.get_i64();
+  if (!get(in, s.fit)) return false;
   s.origin_us = in.get_i64();
   return get(in, s.gate);
+}
+
+void put(StateWriter& out, const core::HallPlot::State& s) {
+  out.put_double(s.integrals.integral_psi_day);
+  out.put_double(s.integrals.volume_bbl);
+  out.put_double(s.integrals.last_excess_psi);
+  out.put_double(s.integrals.last_rate_bpd);
+  out.put_i64(s.integrals.skipped_intervals);
+  put(out, s.fit);
+  put(out, s.gate);
+}
+
+bool get(StateReader& in, core::HallPlot::State& s) {
+  s.integrals.integral_psi_day = in.get_double();
+  s.integrals.volume_bbl = in.get_double();
+  s.integrals.last_excess_psi = in.get_double();
+  s.integrals.last_rate_bpd = in.get_double();
+  s.integrals.skipped_intervals = in.get_i64();
+  return get(in, s.fit) && get(in, s.gate);
 }
 
 void put(StateWriter& out, const core::RunningStats::State& s) {

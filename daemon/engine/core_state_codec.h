@@ -9,6 +9,8 @@
 #include "core/cusum.h"
 #include "core/ewma.h"
 #include "core/ewma_chart.h"
+#include "core/hall_integral.h"
+#include "core/linear_fit.h"
 #include "core/rls.h"
 #include "core/running_stats.h"
 #include "core/trend.h"
@@ -23,6 +25,8 @@ void put(StateWriter& out, const core::Cusum::State& s);
 void put(StateWriter& out, const core::Rls::State& s);
 void put(StateWriter& out, const core::LinearTrend::State& s);
 void put(StateWriter& out, const core::RunningStats::State& s);
+void put(StateWriter& out, const core::WeightedLinearFit::State& s);
+void put(StateWriter& out, const core::HallPlot::State& s);
 
 bool get(StateReader& in, core::SampleGate::State& s);
 bool get(StateReader& in, core::Ewma::State& s);
@@ -31,5 +35,7 @@ bool get(StateReader& in, core::Cusum::State& s);
 bool get(StateReader& in, core::Rls::State& s);
 bool get(StateReader& in, core::LinearTrend::State& s);
 bool get(StateReader& in, core::RunningStats::State& s);
+bool get(StateReader& in, core::WeightedLinearFit::State& s);
+bool get(StateReader& in, core::HallPlot::State& s);
 
 }  // namespace bw::engine

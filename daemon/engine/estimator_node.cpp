@@ -4,11 +4,13 @@
 #include <cassert>
 #include <cmath>
 #include <cstdio>
+#include <limits>
 #include <vector>
 
 #include "core/cusum.h"
 #include "core/ewma.h"
 #include "core/ewma_chart.h"
+#include "core/hall_integral.h"
 #include "core/rate_of_change.h"
 #include "core/rls.h"
 #include "engine/baseline.h"
@@ -286,6 +288,53 @@ class RateNode final : public EstimatorNode {
   WarmUp warm_up_;
 };
 
+// The Hall plot speaks once its fit is primed and a baseline slope has been taken: the slope
+// reached after `learn_s` seconds of data, when the well is taken to be as it should be.
+class HallNode final : public EstimatorNode {
+ public:
+  explicit HallNode(const HallSpec& spec)
+      : plot_(core::HallPlot::Options{
+            .reference_pressure_psi = spec.reference_pressure_psi,
+            .window = spec.window,
+            .basis = spec.basis == HallWindowBasis::time ? core::HallPlot::WindowBasis::time
+                                                         : core::HallPlot::WindowBasis::volume,
+            .max_interval_s = spec.max_interval_s}),
+        learn_(spec.learn_s) {}
+
+  bool update(std::span<const double> in, core::SensorTime t, std::span<double> out) override {
+    plot_.update(in[0], in[1], t);
+    const bool learned = learn_.over(t);
+    if (!plot_.primed()) return false;
+    const double slope = plot_.slope_psi_day_per_bbl();
+    // A baseline must be a well taking water: a non-positive slope is no reference to judge by.
+    if (std::isnan(baseline_slope_) && learned && slope > 0) baseline_slope_ = slope;
+    if (std::isnan(baseline_slope_)) return false;
+    out[0] = plot_.integral_psi_day();
+    out[1] = plot_.cumulative_volume_bbl();
+    out[2] = slope;
+    out[3] = plot_.injectivity_index();
+    out[4] = 100.0 * (slope / baseline_slope_ - 1.0);
+    return true;
+  }
+  void save(StateWriter& out) const override {
+    put(out, plot_.state());
+    learn_.save(out);
+    out.put_double(baseline_slope_);
+  }
+  bool load(StateReader& in) override {
+    core::HallPlot::State state;
+    if (!get(in, state) || !learn_.load(in)) return false;
+    plot_.restore(state);
+    baseline_slope_ = in.get_double();
+    return in.ok();
+  }
+
+ private:
+  core::HallPlot plot_;
+  WarmUp learn_;
+  double baseline_slope_ = std::numeric_limits<double>::quiet_NaN();
+};
+
 }  // namespace
 
 std::unique_ptr<EstimatorNode> make_estimator_node(const EstimatorKind& spec) {
@@ -297,6 +346,7 @@ std::unique_ptr<EstimatorNode> make_estimator_node(const EstimatorKind& spec) {
           [](const RlsSpec& s) -> std::unique_ptr<EstimatorNode> { return std::make_unique<RlsNode>(s); },
           [](const TrendSpec& s) -> std::unique_ptr<EstimatorNode> { return std::make_unique<TrendNode>(s); },
           [](const RateSpec& s) -> std::unique_ptr<EstimatorNode> { return std::make_unique<RateNode>(s); },
+          [](const HallSpec& s) -> std::unique_ptr<EstimatorNode> { return std::make_unique<HallNode>(s); },
       },
       spec);
 }

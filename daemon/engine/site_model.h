@@ -138,8 +138,26 @@ struct RateSpec {  // smoothed rate of change
   double time_constant_s = 0;
 };
 
+// What the weight of earlier Hall plot points decays with (core/hall_integral.h).
+enum class HallWindowBasis : std::uint8_t { volume, time };
+
+// Hall plot of an injection well (core/hall_integral.h): the integral of the excess of the
+// injection pressure over a constant reference pressure against cumulative injected volume, and
+// the slope of that line over a recent window. The slope is the inverse of the injectivity
+// index; the first usable slope once `learn_s` seconds of data have passed (0: the first usable
+// slope) is held as the baseline of slope_change_percent.
+struct HallSpec {
+  std::string injection_pressure;  // a signal, psi (wellhead or bottom-hole)
+  std::string rate;                // a signal, bbl/d
+  double reference_pressure_psi = 0;
+  double window = 0;  // bbl (basis volume) or days (basis time); 0 = the whole history
+  HallWindowBasis basis = HallWindowBasis::volume;
+  double max_interval_s = 0;  // longer gaps are not integrated; 0 = integrate every gap
+  double learn_s = 0;         // when the baseline slope is taken, after the first sample
+};
+
 using EstimatorKind =
-    std::variant<EwmaSpec, CusumSpec, EwmaChartSpec, RlsSpec, TrendSpec, RateSpec>;
+    std::variant<EwmaSpec, CusumSpec, EwmaChartSpec, RlsSpec, TrendSpec, RateSpec, HallSpec>;
 
 struct EstimatorSpec {
   std::string name;
@@ -154,6 +172,8 @@ struct EstimatorSpec {
 //   rls:        prediction, residual, residual_percent
 //   trend:      level, slope_per_hour
 //   rate:       per_hour
+//   hall:       integral (psi*d), volume (bbl), slope (psi*d/bbl), injectivity (bbl/d/psi),
+//               slope_change_percent (against the learned baseline slope)
 // (The engine owns the table; this comment documents the contract.)
 
 enum class LimitDirection : std::uint8_t { high, low };

@@ -70,6 +70,15 @@ void put_estimator(StateWriter& w, const EstimatorKind& kind) {
                    w.put_string(s.of);
                    w.put_double(s.time_constant_s);
                  },
+                 [&](const HallSpec& s) {
+                   w.put_string(s.injection_pressure);
+                   w.put_string(s.rate);
+                   w.put_double(s.reference_pressure_psi);
+                   w.put_double(s.window);
+                   w.put_u8(static_cast<std::uint8_t>(s.basis));
+                   w.put_double(s.max_interval_s);
+                   w.put_double(s.learn_s);
+                 },
              },
              kind);
 }

@@ -38,7 +38,7 @@ TEST_F(ExampleSite, LoadsWithNoDiagnostics) {
   EXPECT_EQ(site().name, "Dry Creek SWD 4");
   EXPECT_EQ(site().time_zone, "America/Chicago");
   EXPECT_EQ(site().file, kExampleSite);
-  ASSERT_EQ(site().assets.size(), 3u);
+  ASSERT_EQ(site().assets.size(), 7u);  // three tanks, then the pump, compressor, well, gun barrel
   EXPECT_EQ(site().assets[0].name, "skim_tank");  // file order is kept
   EXPECT_EQ(site().assets[1].name, "water_tank_1");
   EXPECT_EQ(site().assets[2].name, "water_tank_2");

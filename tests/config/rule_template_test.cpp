@@ -63,7 +63,7 @@ TEST(RuleTemplate, UnknownKindSuggestsTheNearest) {
   const auto c = compile(kHeader + "estimators:\n  level_mean: {kind: ewm, of: level}\n");
   expect_one(c, 6, 22,
              "estimator 'level_mean': key 'kind': expected one of ewma, cusum, ewma_chart, rls, "
-             "trend, rate, got 'ewm'; did you mean 'ewma'?");
+             "trend, rate, hall, got 'ewm'; did you mean 'ewma'?");
 }
 
 TEST(RuleTemplate, HeadStartMustBeBelowTheDecisionInterval) {

@@ -23,10 +23,11 @@ class ExampleSiteDescription : public ::testing::Test {
 };
 
 TEST_F(ExampleSiteDescription, MentionsEveryAssetTagAndCheck) {
-  EXPECT_TRUE(mentions("site Dry Creek SWD 4 (time zone America/Chicago), 3 assets")) << text_;
-  ASSERT_EQ(site_.assets.size(), 3u);
+  EXPECT_TRUE(mentions("site Dry Creek SWD 4 (time zone America/Chicago), 7 assets")) << text_;
+  ASSERT_EQ(site_.assets.size(), 7u);
   for (const auto& asset : site_.assets) {
-    EXPECT_TRUE(mentions("asset " + asset.name + " (template tank_level)")) << asset.name;
+    EXPECT_TRUE(mentions("asset " + asset.name + " (template " + asset.template_name + ")"))
+        << asset.name;
     for (const auto& input : asset.inputs) {
       EXPECT_TRUE(mentions(input.tag + " -> " + input.role + " [" + input.unit + "]")) << input.tag;
     }

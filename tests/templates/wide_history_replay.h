@@ -1,0 +1,131 @@
+// Replays a constructed history through `brinewatch replay` and reads back the alert events.
+//
+// A test builds a WideHistory (one row per time, one column per tag, the columns in the order
+// given: within a row the engine receives the tags in that order), writes a small site file that
+// binds one asset to a shipped template, and gets every alert transition as an AlertEvent with
+// its time in hours since the start of the history. Used by the template tests only.
+#pragma once
+
+#include <gtest/gtest.h>
+
+#include <algorithm>
+#include <cstdio>
+#include <ctime>
+#include <filesystem>
+#include <fstream>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "../app/run_command.h"
+
+namespace bw::testing {
+
+// The history starts at 2026-03-01T00:00:00Z.
+inline constexpr std::time_t kHistoryStart = 1772323200;
+
+class WideHistory {
+ public:
+  explicit WideHistory(std::vector<std::string> tags) : tags_(std::move(tags)) {}
+
+  // REQUIRES: one value per tag, times not going back.
+  void add_row(double seconds_from_start, const std::vector<double>& values) {
+    rows_.push_back({seconds_from_start, values});
+  }
+
+  void write(const std::filesystem::path& file) const {
+    std::ofstream out(file);
+    out << "time";
+    for (const auto& tag : tags_) out << ',' << tag;
+    out << '\n';
+    char line[64];
+    for (const auto& row : rows_) {
+      std::snprintf(line, sizeof line, "%.0f", static_cast<double>(kHistoryStart) + row.seconds);
+      out << line;
+      for (double v : row.values) {
+        std::snprintf(line, sizeof line, ",%.6g", v);
+        out << line;
+      }
+      out << '\n';
+    }
+  }
+
+ private:
+  struct Row {
+    double seconds;
+    std::vector<double> values;
+  };
+  std::vector<std::string> tags_;
+  std::vector<Row> rows_;
+};
+
+struct AlertEvent {
+  std::string check;
+  std::string event;  // raised, cleared, suppressed, ...
+  double hours = 0;   // since the start of the history
+};
+
+inline std::string json_field(const std::string& line, const std::string& key) {
+  const std::string marker = "\"" + key + "\":\"";
+  const auto at = line.find(marker);
+  if (at == std::string::npos) return {};
+  const auto begin = at + marker.size();
+  return line.substr(begin, line.find('"', begin) - begin);
+}
+
+// "2026-03-05T13:20:00.000Z" -> hours since kHistoryStart.
+inline double hours_since_start(const std::string& iso) {
+  std::tm tm{};
+  if (std::sscanf(iso.c_str(), "%d-%d-%dT%d:%d:%d", &tm.tm_year, &tm.tm_mon, &tm.tm_mday,
+                  &tm.tm_hour, &tm.tm_min, &tm.tm_sec) != 6) {
+    ADD_FAILURE() << "unreadable time " << iso;
+    return -1;
+  }
+  tm.tm_year -= 1900;
+  tm.tm_mon -= 1;
+  return static_cast<double>(timegm(&tm) - kHistoryStart) / 3600.0;
+}
+
+// Writes `site_yaml` and `history` under a scratch folder named `name`, replays, and returns
+// the alert events of asset `asset` in order.
+inline std::vector<AlertEvent> replay_history(const std::string& name, const std::string& site_yaml,
+                                              const WideHistory& history,
+                                              const std::string& asset) {
+  const auto dir = scratch_dir("templates") / name;
+  std::filesystem::create_directories(dir);
+  std::ofstream(dir / "site.yaml") << site_yaml;
+  history.write(dir / "history.csv");
+  const auto alerts = dir / "alerts.jsonl";
+  const CommandResult r =
+      run_brinewatch("replay --config " + (dir / "site.yaml").string() + " --input " +
+                     (dir / "history.csv").string() + " --alerts " + alerts.string());
+  EXPECT_EQ(r.status, 0) << r.output;
+  std::vector<AlertEvent> events;
+  for (const auto& line : lines_of(alerts)) {
+    if (json_field(line, "asset") != asset) continue;
+    events.push_back({json_field(line, "check"), json_field(line, "event"),
+                      hours_since_start(json_field(line, "time"))});
+  }
+  return events;
+}
+
+// The first `raised` event of `check`, if any.
+inline std::optional<double> first_raised(const std::vector<AlertEvent>& events,
+                                          const std::string& check) {
+  const auto it = std::find_if(events.begin(), events.end(), [&](const AlertEvent& e) {
+    return e.check == check && e.event == "raised";
+  });
+  if (it == events.end()) return std::nullopt;
+  return it->hours;
+}
+
+// Every `raised` event, as "check@hours" for failure messages.
+inline std::vector<std::string> raised_list(const std::vector<AlertEvent>& events) {
+  std::vector<std::string> out;
+  for (const auto& e : events) {
+    if (e.event == "raised") out.push_back(e.check + "@" + std::to_string(e.hours) + "h");
+  }
+  return out;
+}
+
+}  // namespace bw::testing
