@@ -67,23 +67,26 @@ Status SqliteConnection::exec(std::string_view sql) {
   return Ok{};
 }
 
-Result<std::int64_t> SqliteConnection::query_int(std::string_view sql) {
+// Runs `sql` and leaves the statement on its first row; an error when there is none.
+Result<SqliteStatement> SqliteConnection::first_row(std::string_view sql) {
   auto statement = SqliteStatement::prepare(*this, sql);
   if (!statement) return statement.error();
   const auto row = statement->step();
   if (!row) return row.error();
   if (!row.value())
     return Error{"state store '" + path_.string() + "': no row from " + std::string(sql)};
+  return statement;
+}
+
+Result<std::int64_t> SqliteConnection::query_int(std::string_view sql) {
+  auto statement = first_row(sql);
+  if (!statement) return statement.error();
   return statement->column_int(0);
 }
 
 Result<std::string> SqliteConnection::query_text(std::string_view sql) {
-  auto statement = SqliteStatement::prepare(*this, sql);
+  auto statement = first_row(sql);
   if (!statement) return statement.error();
-  const auto row = statement->step();
-  if (!row) return row.error();
-  if (!row.value())
-    return Error{"state store '" + path_.string() + "': no row from " + std::string(sql)};
   return statement->column_text(0);
 }
 

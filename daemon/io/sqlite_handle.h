@@ -27,6 +27,8 @@ struct sqlite3_stmt;
 
 namespace bw::io {
 
+class SqliteStatement;
+
 class SqliteConnection {
  public:
   enum class Mode { open_existing, create_if_missing };
@@ -62,6 +64,7 @@ class SqliteConnection {
   friend class SqliteTransaction;
 
   SqliteConnection(sqlite3* db, std::filesystem::path path) : db_(db), path_(std::move(path)) {}
+  Result<SqliteStatement> first_row(std::string_view sql);
 
   sqlite3* db_;
   std::filesystem::path path_;

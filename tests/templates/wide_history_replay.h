@@ -119,6 +119,21 @@ inline std::optional<double> first_raised(const std::vector<AlertEvent>& events,
   return it->hours;
 }
 
+// The hours from `onset_h` to the first raise of `check`, checked to lie in [0, max_h]; nullopt
+// (with a failure) when it never raised. `what` names the case in messages and the figures line.
+inline std::optional<double> expect_raised_within(const std::vector<AlertEvent>& events,
+                                                  const std::string& check, double onset_h,
+                                                  double max_h, const std::string& what) {
+  const auto raised = first_raised(events, check);
+  EXPECT_TRUE(raised.has_value()) << what;
+  if (!raised) return std::nullopt;
+  const double delay_h = *raised - onset_h;
+  std::printf("[ figures ] %s: raised %.2f h after onset\n", what.c_str(), delay_h);
+  EXPECT_GE(delay_h, 0) << what << ": raised before the onset";
+  EXPECT_LE(delay_h, max_h) << what;
+  return delay_h;
+}
+
 // Every `raised` event, as "check@hours" for failure messages.
 inline std::vector<std::string> raised_list(const std::vector<AlertEvent>& events) {
   std::vector<std::string> out;
