@@ -14,6 +14,7 @@
 
 #include "core/sensor_time.h"
 #include "core/trend.h"
+#include "engine/asset_record.h"
 #include "engine/site_model.h"
 #include "engine/state_codec.h"
 
@@ -37,6 +38,10 @@ class EstimatorNode {
   virtual int signal() const { return 0; }
   // A short account of the statistic for an alert message, e.g. "upper sum 5.2 of 5".
   virtual std::string describe_signal() const { return {}; }
+
+  // Estimators that recognise events (a filter change-out): the record of an event recognised
+  // by the latest update(), handed over once; nullopt when there is none.
+  virtual std::optional<RecordContent> take_record() { return std::nullopt; }
 
   // Trend estimators: the forecast of reaching `limit` from `side`, when the trend is usable.
   virtual std::optional<core::TimeToLimit> time_to_limit(double /*limit*/, core::LimitSide /*side*/,
