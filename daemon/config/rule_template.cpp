@@ -63,6 +63,17 @@ bool validate(FieldReader& reader, const ConfigNode& map, const engine::CusumSpe
   return true;
 }
 
+bool validate(FieldReader& reader, const ConfigNode& map, const engine::EpisodeSpec& spec,
+              std::string_view what) {
+  if (!(spec.end_below < spec.start_above)) {
+    reader.error(value_or_map(map, "end_below"),
+                 std::string(what) + ": key 'end_below': must be below start_above (" +
+                     format_number(spec.start_above) + "), got " + format_number(spec.end_below));
+    return false;
+  }
+  return true;
+}
+
 bool validate(FieldReader& reader, const ConfigNode& map, const engine::LimitCheckSpec& spec,
               std::string_view what) {
   if (spec.deadband && spec.deadband_percent) {
@@ -104,14 +115,16 @@ template <class Variant, auto& kKeys>
 std::optional<Variant> read_kind_of(FieldReader& reader, const ConfigNode& map,
                                     std::string_view what) {
   if constexpr (std::is_same_v<Variant, engine::EstimatorKind>) {
-    return read_kind<Variant>(reader, map, kKeys, what, {"kind"});
+    static const std::vector<std::string_view> common =
+        allowed_keys(kEstimatorCommonKeys, {"kind"});
+    return read_kind<Variant>(reader, map, kKeys, what, common);
   } else {
     static const std::vector<std::string_view> common = allowed_keys(kCheckCommonKeys, {"kind"});
     return read_kind<Variant>(reader, map, kKeys, what, common);
   }
 }
 
-const std::array<EstimatorReader, 7> kEstimatorReaders{{
+const std::array<EstimatorReader, 9> kEstimatorReaders{{
     {"ewma", &read_kind_of<engine::EstimatorKind, kEwmaKeys>},
     {"cusum", &read_kind_of<engine::EstimatorKind, kCusumKeys>},
     {"ewma_chart", &read_kind_of<engine::EstimatorKind, kEwmaChartKeys>},
@@ -119,6 +132,8 @@ const std::array<EstimatorReader, 7> kEstimatorReaders{{
     {"trend", &read_kind_of<engine::EstimatorKind, kTrendKeys>},
     {"rate", &read_kind_of<engine::EstimatorKind, kRateKeys>},
     {"hall", &read_kind_of<engine::EstimatorKind, kHallKeys>},
+    {"filter_life", &read_kind_of<engine::EstimatorKind, kFilterLifeKeys>},
+    {"episode", &read_kind_of<engine::EstimatorKind, kEpisodeKeys>},
 }};
 
 const std::array<CheckReader, 8> kCheckReaders{{
@@ -250,8 +265,15 @@ void instantiate_template(const RuleTemplate& rule, const SourceText& source,
   for_each_named(
       reader, doc.find("estimators"), "estimators", "estimator",
       [&](const MapEntry& entry, const std::string& what) {
-        if (auto kind = read_by_kind(reader, entry.value, kEstimatorReaders, what)) {
-          asset.estimators.push_back({entry.key, std::move(*kind), where_of(source, entry)});
+        engine::EstimatorSpec estimator;
+        estimator.name = entry.key;
+        estimator.where = where_of(source, entry);
+        const bool common_ok =
+            read_keys(reader, entry.value, kEstimatorCommonKeys, estimator, what);
+        auto kind = read_by_kind(reader, entry.value, kEstimatorReaders, what);
+        if (common_ok && kind) {
+          estimator.kind = std::move(*kind);
+          asset.estimators.push_back(std::move(estimator));
         }
       });
 

@@ -10,9 +10,9 @@
 //   template, description              texts (both required)
 //   parameters: {<name>: {default, unit, description, min, max}}   default: number or duration
 //   inputs:     {<role>: kInputKeys}
-//   signals:    {<name>: kSignalKeys}          op: linear, sum, difference, product, ratio
-//   estimators: {<name>: {kind, ...}}          kind: ewma, cusum, ewma_chart, rls, trend, rate,
-//                                                    hall
+//   signals:    {<name>: kSignalKeys}          op: linear, sum, difference, product, ratio, gate
+//   estimators: {<name>: {kind, restart_on, ...}}  kind: ewma, cusum, ewma_chart, rls, trend,
+//                                                    rate, hall, filter_life, episode
 //   checks:     {<name>: {kind, priority, message, latching, suppressed_when, ...}}
 //               kind: limit, statistical, time_to_limit, rate, stale, flatline, out_of_range, ne43
 //               suppressed_when: {of: <signal>, below: <number>} or {of: <signal>, above: <number>}
@@ -76,12 +76,13 @@ inline constexpr std::array<std::pair<std::string_view, engine::Priority>, 4> kP
 inline constexpr std::array<std::pair<std::string_view, engine::LimitDirection>, 2> kDirectionNames{
     {{"high", engine::LimitDirection::high}, {"low", engine::LimitDirection::low}}};
 // Operation names; engine::signal_op_name() gives the same names the other way round.
-inline constexpr std::array<std::pair<std::string_view, engine::SignalOp>, 5> kSignalOpNames{{
+inline constexpr std::array<std::pair<std::string_view, engine::SignalOp>, 6> kSignalOpNames{{
     {"linear", engine::SignalOp::linear},
     {"sum", engine::SignalOp::sum},
     {"difference", engine::SignalOp::difference},
     {"product", engine::SignalOp::product},
     {"ratio", engine::SignalOp::ratio},
+    {"gate", engine::SignalOp::gate},
 }};
 
 inline constexpr std::array<std::pair<std::string_view, engine::RateDirection>, 2>
@@ -140,13 +141,15 @@ inline constexpr std::array<Key<engine::InputSpec>, 5> kInputKeys{{
     {"measurement", &engine::InputSpec::measurement},
 }};
 
-inline constexpr std::array<Key<engine::SignalSpec>, 6> kSignalKeys{{
+inline constexpr std::array<Key<engine::SignalSpec>, 8> kSignalKeys{{
     {"op", &engine::SignalSpec::op, kAnyValue, false, true},
     {"of", &engine::SignalSpec::operands, kAnyValue, false, true},
     {"unit", &engine::SignalSpec::unit, kAnyValue, false, true},
     {"gain", &engine::SignalSpec::gain},
     {"offset", &engine::SignalSpec::offset},
     {"exponent", &engine::SignalSpec::exponent},
+    {"reference", &engine::SignalSpec::reference, kPositive},
+    {"above", &engine::SignalSpec::above},
 }};
 
 inline constexpr std::array<Key<engine::BaselineSpec>, 3> kBaselineKeys{{
@@ -210,6 +213,34 @@ inline constexpr std::array<Key<engine::HallSpec>, 7> kHallKeys{{
     {"basis", &engine::HallSpec::basis},
     {"max_interval", &engine::HallSpec::max_interval_s, kNonNegative, true},
     {"learn", &engine::HallSpec::learn_s, kNonNegative, true},
+}};
+
+inline constexpr Bounds kOpenUnitInterval{.min = 0.0, .min_open = true, .max = 1.0, .max_open = true};
+
+// flow_time_unit: the duration the flow's unit refers to (1d for bbl/d).
+inline constexpr std::array<Key<engine::FilterLifeSpec>, 8> kFilterLifeKeys{{
+    {"of", &engine::FilterLifeSpec::of, kAnyValue, false, true},
+    {"flow", &engine::FilterLifeSpec::flow, kAnyValue, false, true},
+    {"memory", &engine::FilterLifeSpec::memory_s, kPositive, true},
+    {"drop_fraction", &engine::FilterLifeSpec::drop_fraction, kOpenUnitInterval},
+    {"confirm", &engine::FilterLifeSpec::confirm_s, kPositive, true},
+    {"stop_gap", &engine::FilterLifeSpec::stop_gap_s, kPositive, true},
+    {"flow_time_unit", &engine::FilterLifeSpec::flow_time_unit_s, kPositive, true},
+    {"stop_required", &engine::FilterLifeSpec::stop_required},
+}};
+
+// end_below must be under start_above (checked by the reader).
+inline constexpr std::array<Key<engine::EpisodeSpec>, 5> kEpisodeKeys{{
+    {"of", &engine::EpisodeSpec::of, kAnyValue, false, true},
+    {"rate", &engine::EpisodeSpec::rate, kAnyValue, false, true},
+    {"start_above", &engine::EpisodeSpec::start_above, kAnyValue, false, true},
+    {"end_below", &engine::EpisodeSpec::end_below, kAnyValue, false, true},
+    {"end_after", &engine::EpisodeSpec::end_after_s, kNonNegative, true},
+}};
+
+// Keys every estimator has besides `kind`.
+inline constexpr std::array<Key<engine::EstimatorSpec>, 1> kEstimatorCommonKeys{{
+    {"restart_on", &engine::EstimatorSpec::restart_on},
 }};
 
 // Keys every check has besides `kind`.

@@ -70,6 +70,10 @@ std::string describe_signal(const engine::SignalSpec& s) {
   if (s.op == engine::SignalOp::ratio && s.exponent != 1.0) {
     out += ", exponent " + format_number(s.exponent);
   }
+  if (s.op == engine::SignalOp::gate) out += ", while above " + format_number(s.above);
+  if (s.op == engine::SignalOp::ratio && s.reference != 1.0) {
+    out += ", referred to " + format_number(s.reference);
+  }
   return out;
 }
 
@@ -111,9 +115,20 @@ std::string describe_estimator(const engine::EstimatorSpec& e) {
                                  : std::string("whole history")) +
                    ", baseline slope after " + format_duration(s.learn_s);
           },
+          [](const engine::FilterLifeSpec& s) {
+            return "drop of " + format_number(100 * s.drop_fraction) + " % confirmed over " +
+                   format_duration(s.confirm_s) + ", stop after a gap of " +
+                   format_duration(s.stop_gap_s) +
+                   (s.stop_required ? ", change-outs need a stop" : ", any drop is a change-out") +
+                   ", reference time constant " + format_duration(s.memory_s);
+          },
+          [](const engine::EpisodeSpec& s) {
+            return "starts above " + format_number(s.start_above) + ", ends below " +
+                   format_number(s.end_below) + " for " + format_duration(s.end_after_s);
+          },
       },
       e.kind);
-  return head + "; " + details;
+  return head + "; " + details + (e.restart_on.empty() ? "" : "; restarts on " + e.restart_on);
 }
 
 std::string describe_limit(const engine::AssetSpec& asset, const engine::LimitCheckSpec& s) {

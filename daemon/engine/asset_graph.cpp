@@ -21,6 +21,10 @@ constexpr std::array<std::string_view, 2> kTrendOutputs{"level", "slope_per_hour
 constexpr std::array<std::string_view, 1> kRateOutputs{"per_hour"};
 constexpr std::array<std::string_view, 5> kHallOutputs{"integral", "volume", "slope", "injectivity",
                                                        "slope_change_percent"};
+constexpr std::array<std::string_view, 6> kFilterLifeOutputs{
+    "level", "online_hours", "throughput", "days_in_service", "unexplained_drop", "change_outs"};
+constexpr std::array<std::string_view, 4> kEpisodeOutputs{"active", "change", "hours",
+                                                          "peak_rate"};
 
 // Resolves names to graph nodes and walks the graph depth first.
 class Analyser {
@@ -83,7 +87,7 @@ class Analyser {
     for (const auto& signal : asset_.signals) {
       const std::size_t n = signal.operands.size();
       const bool one = signal.op == SignalOp::linear;
-      const bool two = signal.op == SignalOp::ratio;
+      const bool two = signal.op == SignalOp::ratio || signal.op == SignalOp::gate;
       if ((one && n != 1) || (two && n != 2) || (!one && !two && n < 2)) {
         problem("signal '" + signal.name + "' (" + std::string(signal_op_name(signal.op)) +
                     ") takes " + (one ? "exactly 1 operand" : two ? "exactly 2 operands" : "2 or more operands") +
@@ -130,6 +134,27 @@ class Analyser {
     return std::nullopt;
   }
 
+  // An estimator restarts on the events of another one, evaluated before it.
+  std::optional<GraphNode> resolve_restart(const EstimatorSpec& estimator) {
+    if (estimator.restart_on.empty()) return std::nullopt;
+    auto it = names_.find(estimator.restart_on);
+    if (it == names_.end() || it->second.kind != GraphNode::Kind::estimator) {
+      problem("estimator '" + estimator.name + "': restart_on '" + estimator.restart_on +
+                  "' names no estimator of asset '" + asset_.name + "'",
+              estimator.where);
+      return std::nullopt;
+    }
+    const auto& source = asset_.estimators[it->second.index];
+    if (!std::holds_alternative<FilterLifeSpec>(source.kind)) {
+      problem("estimator '" + estimator.name + "': restart_on '" + estimator.restart_on +
+                  "' is a " + std::string(estimator_kind_name(source.kind)) +
+                  ", which recognises no events to restart on; name a filter_life estimator",
+              estimator.where);
+      return std::nullopt;
+    }
+    return it->second;
+  }
+
   std::vector<std::string> reads(GraphNode node) const {
     if (node.kind == GraphNode::Kind::signal) return asset_.signals[node.index].operands;
     return estimator_inputs(asset_.estimators[node.index].kind);
@@ -156,6 +181,9 @@ class Analyser {
     mark = Mark::in_progress;
     for (const auto& ref : reads(node)) {
       if (auto dep = resolve_signal(ref, where_of(node))) visit(*dep);
+    }
+    if (node.kind == GraphNode::Kind::estimator) {
+      if (auto dep = resolve_restart(asset_.estimators[node.index])) visit(*dep);
     }
     marks_[static_cast<int>(node.kind)][node.index] = Mark::done;
     graph_.order.push_back(node);
@@ -279,6 +307,8 @@ std::string_view signal_op_name(SignalOp op) {
       return "product";
     case SignalOp::ratio:
       return "ratio";
+    case SignalOp::gate:
+      return "gate";
   }
   return "unknown";
 }
@@ -292,6 +322,8 @@ std::string_view estimator_kind_name(const EstimatorKind& kind) {
                         [](const TrendSpec&) { return std::string_view("trend"); },
                         [](const RateSpec&) { return std::string_view("rate"); },
                         [](const HallSpec&) { return std::string_view("hall"); },
+                        [](const FilterLifeSpec&) { return std::string_view("filter_life"); },
+                        [](const EpisodeSpec&) { return std::string_view("episode"); },
                     },
                     kind);
 }
@@ -305,6 +337,8 @@ std::span<const std::string_view> estimator_outputs(const EstimatorKind& kind) {
                         [](const TrendSpec&) { return std::span<const std::string_view>(kTrendOutputs); },
                         [](const RateSpec&) { return std::span<const std::string_view>(kRateOutputs); },
                         [](const HallSpec&) { return std::span<const std::string_view>(kHallOutputs); },
+                        [](const FilterLifeSpec&) { return std::span<const std::string_view>(kFilterLifeOutputs); },
+                        [](const EpisodeSpec&) { return std::span<const std::string_view>(kEpisodeOutputs); },
                     },
                     kind);
 }
@@ -319,6 +353,8 @@ std::vector<std::string> estimator_inputs(const EstimatorKind& kind) {
                         [](const HallSpec& s) {
                           return std::vector<std::string>{s.injection_pressure, s.rate};
                         },
+                        [](const FilterLifeSpec& s) { return std::vector<std::string>{s.of, s.flow}; },
+                        [](const EpisodeSpec& s) { return std::vector<std::string>{s.of, s.rate}; },
                         [](const auto& s) { return std::vector<std::string>{s.of}; },
                     },
                     kind);

@@ -11,8 +11,15 @@ namespace {
 constexpr std::uint8_t kStateVersion = 1;
 
 // The unit of an estimator output, given the unit of the signal it watches.
-std::string output_unit(std::string_view output, const std::string& input_unit) {
+// The unit of an estimator output, from its name and the units of the estimator's inputs.
+std::string output_unit(std::string_view output, const std::vector<std::string>& input_units) {
+  const std::string& input_unit = input_units[0];
   if (output == "slope_per_hour" || output == "per_hour") return input_unit + "/h";
+  if (output == "online_hours" || output == "hours") return "h";
+  if (output == "days_in_service") return "d";
+  if (output == "unexplained_drop" || output == "change_outs" || output == "active") return "";
+  if (output == "throughput") return input_units[1].substr(0, input_units[1].find('/'));
+  if (output == "peak_rate") return input_units[1];
   if (output == "residual_percent" || output == "slope_change_percent") return "%";
   if (output == "integral") return "psi*d";
   if (output == "volume") return "bbl";
@@ -37,10 +44,12 @@ double apply(const SignalSpec& spec, const std::vector<double>& values,
     case SignalOp::product:
       for (std::size_t i = 1; i < slots.size(); ++i) acc *= values[slots[i]];
       return acc;
+    case SignalOp::gate:
+      return values[slots[1]] > spec.above ? acc : NAN;
     case SignalOp::ratio: {
       const double denominator = values[slots[1]];
       if (spec.exponent != 1.0 && denominator <= 0) return NAN;
-      return acc / std::pow(denominator, spec.exponent);
+      return acc / std::pow(denominator / spec.reference, spec.exponent);
     }
   }
   return NAN;
@@ -64,7 +73,7 @@ AssetSignals::EstimatorRef AssetSignals::estimator(const std::string& name) cons
     return spec_.estimators[s.spec_index].name == name;
   });
   assert(it != estimators_.end());
-  return {it->node.get(), it->first_output_slot, it->input_slots[0]};
+  return {&it->node, it->first_output_slot, it->input_slots[0]};
 }
 
 void AssetSignals::compile() {
@@ -98,18 +107,31 @@ void AssetSignals::compile() {
     } else {
       const auto& e = spec_.estimators[node.index];
       const auto outputs = estimator_outputs(e.kind);
+      std::vector<std::size_t> input_slots;
+      std::vector<std::string> input_units;
+      for (const auto& name : estimator_inputs(e.kind)) {
+        input_slots.push_back(slot_of(name));
+        input_units.push_back(slot_units_[input_slots.back()]);
+      }
       EstimatorStep step{node.index,
-                         make_estimator_node(e.kind),
-                         {},
+                         make_estimator_node(e.kind, input_units),
+                         std::move(input_slots),
                          estimator_first_slot[node.index],
-                         outputs.size()};
-      for (const auto& name : estimator_inputs(e.kind)) step.input_slots.push_back(slot_of(name));
+                         outputs.size(),
+                         {}};
       for (std::size_t o = 0; o < outputs.size(); ++o) {
-        slot_units_[step.first_output_slot + o] =
-            output_unit(outputs[o], slot_units_[step.input_slots[0]]);
+        slot_units_[step.first_output_slot + o] = output_unit(outputs[o], input_units);
       }
       widest = std::max(widest, step.input_slots.size());
       estimators_.push_back(std::move(step));
+    }
+  }
+  for (auto& step : estimators_) {
+    const std::string& name = spec_.estimators[step.spec_index].name;
+    for (std::size_t d = 0; d < estimators_.size(); ++d) {
+      if (spec_.estimators[estimators_[d].spec_index].restart_on == name) {
+        step.restarts.push_back(d);
+      }
     }
   }
   input_buffer_.resize(widest);
@@ -200,6 +222,16 @@ void AssetSignals::update_estimator(EstimatorStep& step, core::SensorTime t) {
     has_value_[step.first_output_slot + o] = 1;
     fresh_pass_[step.first_output_slot + o] = pass_;
   }
+  if (step.node->restarts_dependents()) {
+    for (std::size_t d : step.restarts) restart(estimators_[d]);
+  }
+}
+
+void AssetSignals::restart(EstimatorStep& step) {
+  std::vector<std::string> input_units;
+  for (std::size_t slot : step.input_slots) input_units.push_back(slot_units_[slot]);
+  step.node = make_estimator_node(spec_.estimators[step.spec_index].kind, input_units);
+  for (std::size_t o = 0; o < step.output_count; ++o) has_value_[step.first_output_slot + o] = 0;
 }
 
 void AssetSignals::set_input(std::size_t input, double value, core::SensorTime t) {

@@ -4,13 +4,15 @@
 // Every named signal (input, derived signal, estimator output) has a value slot. set_input()
 // starts a new pass: it fills the input's slot and marks it fresh for this pass; then each
 // downstream derived signal is recomputed if any operand is fresh (the others are held), and
-// each estimator is updated if its first input is fresh. A derived value that is not finite
+// each estimator is updated if its first input is fresh; an estimator whose update recognised an
+// event (a filter change-out) restarts the estimators that name it in `restart_on`, which come
+// later in the order, before they see the pass's values. A derived value that is not finite
 // (division by zero, say) is not written and does not propagate. Slots hold no value before
 // their first computation (has_value()).
 //
 // Invariants: the AssetSpec outlives this object and passed analyse_asset() with no problems;
 // slots and nodes are sized once at construction and never move, so pointers to slot values
-// stay valid, and evaluation allocates nothing. Not thread-safe: owned by the engine's thread.
+// stay valid, and evaluation allocates nothing except when an event restarts an estimator. Not thread-safe: owned by the engine's thread.
 #pragma once
 
 #include <cstdint>
@@ -47,7 +49,7 @@ class AssetSignals {
   const std::string& unit(std::size_t slot) const { return slot_units_[slot]; }
 
   struct EstimatorRef {
-    const EstimatorNode* node;
+    const std::unique_ptr<EstimatorNode>* node;  // stays put; the node is replaced on restart
     std::size_t first_output_slot;
     std::size_t watched_slot;  // its first input
   };
@@ -73,6 +75,7 @@ class AssetSignals {
     std::vector<std::size_t> input_slots;
     std::size_t first_output_slot;
     std::size_t output_count;
+    std::vector<std::size_t> restarts;  // estimators_ restarted by this one's events
   };
   // One entry of an input's evaluation plan: a signal or an estimator step.
   struct PlanEntry {
@@ -84,6 +87,8 @@ class AssetSignals {
   void build_plans();
   void compute_signal(const SignalStep& step);
   void update_estimator(EstimatorStep& step, core::SensorTime t);
+  // Starts an estimator afresh: a new node, its outputs without a value.
+  void restart(EstimatorStep& step);
 
   const AssetSpec& spec_;
   std::vector<GraphNode> order_;  // signals and estimators in evaluation order

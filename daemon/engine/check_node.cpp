@@ -120,12 +120,12 @@ class StatisticalCheckNode final : public CheckNode {
   }
 
   std::optional<CheckOutcome> evaluate(core::SensorTime) override {
-    const bool out_of_control = sources_.estimator->signal() != 0;
+    const bool out_of_control = (*sources_.estimator)->signal() != 0;
     if (out_of_control == active()) return std::nullopt;
     const double v = *sources_.value;
     return change_to(out_of_control, v,
                      out_of_control
-                         ? sources_.estimator->describe_signal()
+                         ? (*sources_.estimator)->describe_signal()
                          : "back within the in-control band at " + figure(v, sources_.unit));
   }
 
@@ -148,7 +148,7 @@ class TimeToLimitCheckNode final : public CheckNode {
   std::optional<CheckOutcome> evaluate(core::SensorTime now) override {
     const auto side =
         spec_.direction == LimitDirection::high ? core::LimitSide::high : core::LimitSide::low;
-    const auto ttl = sources_.estimator->time_to_limit(spec_.limit, side, now);
+    const auto ttl = (*sources_.estimator)->time_to_limit(spec_.limit, side, now);
     if (!ttl) return std::nullopt;
     const bool reaching =
         ttl->status == core::TimeToLimit::Status::crossing && std::isfinite(ttl->seconds_late);

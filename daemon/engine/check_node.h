@@ -69,7 +69,9 @@ class CheckNode {
 struct CheckSources {
   const double* value = nullptr;             // the watched slot; never null
   std::string_view unit;                     // of the watched slot
-  const EstimatorNode* estimator = nullptr;  // statistical and time-to-limit checks
+  // Statistical and time-to-limit checks: the holder of the estimator's node, which stays put
+  // while the node itself is replaced when the estimator restarts (restart_on).
+  const std::unique_ptr<EstimatorNode>* estimator = nullptr;
   const core::SensorTime* heard = nullptr;   // stale checks: when the input was last heard
 };
 

@@ -167,4 +167,74 @@ bool get(StateReader& in, core::RunningStats::State& s) {
   return in.ok();
 }
 
+void put(StateWriter& out, const core::FilterLife::State& s) {
+  put(out, s.reference);
+  out.put_i64(s.life_start_us);
+  out.put_bool(s.life_complete);
+  out.put_double(s.life.online_s);
+  out.put_double(s.life.throughput);
+  out.put_bool(s.candidate_open);
+  out.put_bool(s.candidate_after_stop);
+  out.put_i64(s.candidate_start_us);
+  out.put_i64(s.last_before_candidate_us);
+  out.put_double(s.candidate_threshold);
+  out.put_double(s.candidate_before);
+  out.put_double(s.candidate_sum);
+  out.put_i64(s.candidate_count);
+  out.put_double(s.candidate.online_s);
+  out.put_double(s.candidate.throughput);
+  out.put_double(s.last_flow);
+  out.put_bool(s.unexplained_drop);
+  out.put_i64(s.change_outs);
+  put(out, s.gate);
+}
+
+bool get(StateReader& in, core::FilterLife::State& s) {
+  if (!get(in, s.reference)) return false;
+  s.life_start_us = in.get_i64();
+  s.life_complete = in.get_bool();
+  s.life.online_s = in.get_double();
+  s.life.throughput = in.get_double();
+  s.candidate_open = in.get_bool();
+  s.candidate_after_stop = in.get_bool();
+  s.candidate_start_us = in.get_i64();
+  s.last_before_candidate_us = in.get_i64();
+  s.candidate_threshold = in.get_double();
+  s.candidate_before = in.get_double();
+  s.candidate_sum = in.get_double();
+  s.candidate_count = in.get_i64();
+  s.candidate.online_s = in.get_double();
+  s.candidate.throughput = in.get_double();
+  s.last_flow = in.get_double();
+  s.unexplained_drop = in.get_bool();
+  s.change_outs = in.get_i64();
+  return get(in, s.gate);
+}
+
+void put(StateWriter& out, const core::Episode::State& s) {
+  out.put_bool(s.armed);
+  out.put_bool(s.active);
+  out.put_i64(s.start_us);
+  out.put_double(s.start_value);
+  out.put_double(s.change);
+  out.put_double(s.peak_rate);
+  out.put_bool(s.low_since_set);
+  out.put_i64(s.low_since_us);
+  out.put_double(s.value_at_low);
+  put(out, s.gate);
+}
+
+bool get(StateReader& in, core::Episode::State& s) {
+  s.armed = in.get_bool();
+  s.active = in.get_bool();
+  s.start_us = in.get_i64();
+  s.start_value = in.get_double();
+  s.change = in.get_double();
+  s.peak_rate = in.get_double();
+  s.low_since_set = in.get_bool();
+  s.low_since_us = in.get_i64();
+  s.value_at_low = in.get_double();
+  return get(in, s.gate);
+}
+
 }  // namespace bw::engine

@@ -8,7 +8,9 @@
 
 #include "core/cusum.h"
 #include "core/ewma.h"
+#include "core/episode.h"
 #include "core/ewma_chart.h"
+#include "core/filter_life.h"
 #include "core/hall_integral.h"
 #include "core/linear_fit.h"
 #include "core/rls.h"
@@ -27,6 +29,8 @@ void put(StateWriter& out, const core::LinearTrend::State& s);
 void put(StateWriter& out, const core::RunningStats::State& s);
 void put(StateWriter& out, const core::WeightedLinearFit::State& s);
 void put(StateWriter& out, const core::HallPlot::State& s);
+void put(StateWriter& out, const core::FilterLife::State& s);
+void put(StateWriter& out, const core::Episode::State& s);
 
 bool get(StateReader& in, core::SampleGate::State& s);
 bool get(StateReader& in, core::Ewma::State& s);
@@ -37,5 +41,7 @@ bool get(StateReader& in, core::LinearTrend::State& s);
 bool get(StateReader& in, core::RunningStats::State& s);
 bool get(StateReader& in, core::WeightedLinearFit::State& s);
 bool get(StateReader& in, core::HallPlot::State& s);
+bool get(StateReader& in, core::FilterLife::State& s);
+bool get(StateReader& in, core::Episode::State& s);
 
 }  // namespace bw::engine

@@ -5,11 +5,14 @@
 #include <cmath>
 #include <cstdio>
 #include <limits>
+#include <utility>
 #include <vector>
 
 #include "core/cusum.h"
 #include "core/ewma.h"
+#include "core/episode.h"
 #include "core/ewma_chart.h"
+#include "core/filter_life.h"
 #include "core/hall_integral.h"
 #include "core/rate_of_change.h"
 #include "core/rls.h"
@@ -335,9 +338,118 @@ class HallNode final : public EstimatorNode {
   double baseline_slope_ = std::numeric_limits<double>::quiet_NaN();
 };
 
+
+std::string unit_at(std::span<const std::string> units, std::size_t i) {
+  return i < units.size() ? units[i] : std::string();
+}
+
+// "bbl/d" -> "bbl": the volume unit of a flow unit.
+std::string volume_unit_of(const std::string& flow_unit) {
+  return flow_unit.substr(0, flow_unit.find('/'));
+}
+
+class FilterLifeNode final : public EstimatorNode {
+ public:
+  FilterLifeNode(const FilterLifeSpec& spec, std::span<const std::string> units)
+      : life_(core::FilterLife::Options{.memory_s = spec.memory_s,
+                                        .drop_fraction = spec.drop_fraction,
+                                        .confirm_s = spec.confirm_s,
+                                        .stop_gap_s = spec.stop_gap_s,
+                                        .flow_time_unit_s = spec.flow_time_unit_s,
+                                        .stop_required = spec.stop_required}),
+        dp_unit_(unit_at(units, 0)),
+        volume_unit_(volume_unit_of(unit_at(units, 1))) {}
+
+  bool update(std::span<const double> in, core::SensorTime t, std::span<double> out) override {
+    changed_ = life_.update(in[0], in[1], t);
+    if (changed_) record_ = record_of(*changed_);
+    out[0] = life_.reference_level();
+    out[1] = life_.online_hours();
+    out[2] = life_.throughput();
+    out[3] = life_.days_in_service(t);
+    out[4] = life_.unexplained_drop() ? 1.0 : 0.0;
+    out[5] = static_cast<double>(life_.change_outs());
+    return true;
+  }
+  std::optional<RecordContent> take_record() override { return std::exchange(record_, std::nullopt); }
+  bool restarts_dependents() const override { return changed_.has_value(); }
+  void save(StateWriter& out) const override { put(out, life_.state()); }
+  bool load(StateReader& in) override {
+    core::FilterLife::State state;
+    if (!get(in, state)) return false;
+    life_.restore(state);
+    changed_.reset();
+    record_.reset();
+    return true;
+  }
+
+ private:
+  RecordContent record_of(const core::FilterLife::ChangeOut& c) const {
+    return RecordContent{
+        .kind = "change_out",
+        .time = c.time,
+        .period_start = c.life_start,
+        .fields = {{"run_life_days", core::seconds_between(c.life_start, c.life_end) / 86400.0, "d"},
+                   {"online_hours", c.online_s / 3600.0, "h"},
+                   {"throughput", c.throughput, volume_unit_},
+                   {"dp_before", c.level_before, dp_unit_},
+                   {"dp_after", c.level_after, dp_unit_},
+                   {"whole_life_seen", c.life_complete ? 1.0 : 0.0, ""}}};
+  }
+
+  core::FilterLife life_;
+  std::string dp_unit_;
+  std::string volume_unit_;
+  std::optional<core::FilterLife::ChangeOut> changed_;
+  std::optional<RecordContent> record_;
+};
+
+class EpisodeNode final : public EstimatorNode {
+ public:
+  EpisodeNode(const EpisodeSpec& spec, std::span<const std::string> units)
+      : episode_(core::Episode::Options{.start_above = spec.start_above,
+                                        .end_below = spec.end_below,
+                                        .end_after_s = spec.end_after_s}),
+        quantity_unit_(unit_at(units, 0)),
+        rate_unit_(unit_at(units, 1)) {}
+
+  bool update(std::span<const double> in, core::SensorTime t, std::span<double> out) override {
+    if (auto closed = episode_.update(in[0], in[1], t)) {
+      record_ = RecordContent{
+          .kind = "episode",
+          .time = closed->end,
+          .period_start = closed->start,
+          .fields = {{"change", closed->change, quantity_unit_},
+                     {"hours", core::seconds_between(closed->start, closed->end) / 3600.0, "h"},
+                     {"peak_rate", closed->peak_rate, rate_unit_}}};
+    }
+    out[0] = episode_.active() ? 1.0 : 0.0;
+    out[1] = episode_.active() ? episode_.change() : 0.0;
+    out[2] = episode_.hours_active(t);
+    out[3] = episode_.peak_rate();
+    return true;
+  }
+  std::optional<RecordContent> take_record() override { return std::exchange(record_, std::nullopt); }
+  void save(StateWriter& out) const override { put(out, episode_.state()); }
+  bool load(StateReader& in) override {
+    core::Episode::State state;
+    if (!get(in, state)) return false;
+    episode_.restore(state);
+    record_.reset();
+    return true;
+  }
+
+ private:
+  core::Episode episode_;
+  std::string quantity_unit_;
+  std::string rate_unit_;
+  std::optional<RecordContent> record_;
+};
+
 }  // namespace
 
-std::unique_ptr<EstimatorNode> make_estimator_node(const EstimatorKind& spec) {
+std::unique_ptr<EstimatorNode> make_estimator_node(const EstimatorKind& spec,
+                                                   std::span<const std::string> input_units) {
   return std::visit(
       core::Overloaded{
           [](const EwmaSpec& s) -> std::unique_ptr<EstimatorNode> { return std::make_unique<EwmaNode>(s); },
@@ -347,6 +459,12 @@ std::unique_ptr<EstimatorNode> make_estimator_node(const EstimatorKind& spec) {
           [](const TrendSpec& s) -> std::unique_ptr<EstimatorNode> { return std::make_unique<TrendNode>(s); },
           [](const RateSpec& s) -> std::unique_ptr<EstimatorNode> { return std::make_unique<RateNode>(s); },
           [](const HallSpec& s) -> std::unique_ptr<EstimatorNode> { return std::make_unique<HallNode>(s); },
+          [&](const FilterLifeSpec& s) -> std::unique_ptr<EstimatorNode> {
+            return std::make_unique<FilterLifeNode>(s, input_units);
+          },
+          [&](const EpisodeSpec& s) -> std::unique_ptr<EstimatorNode> {
+            return std::make_unique<EpisodeNode>(s, input_units);
+          },
       },
       spec);
 }

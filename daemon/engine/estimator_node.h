@@ -11,6 +11,7 @@
 #include <memory>
 #include <optional>
 #include <span>
+#include <string>
 
 #include "core/sensor_time.h"
 #include "core/trend.h"
@@ -42,6 +43,9 @@ class EstimatorNode {
   // Estimators that recognise events (a filter change-out): the record of an event recognised
   // by the latest update(), handed over once; nullopt when there is none.
   virtual std::optional<RecordContent> take_record() { return std::nullopt; }
+  // True right after the update() that recognised an event restarting the estimators that name
+  // this one in `restart_on` (a filter change-out).
+  virtual bool restarts_dependents() const { return false; }
 
   // Trend estimators: the forecast of reaching `limit` from `side`, when the trend is usable.
   virtual std::optional<core::TimeToLimit> time_to_limit(double /*limit*/, core::LimitSide /*side*/,
@@ -50,6 +54,9 @@ class EstimatorNode {
   }
 };
 
-std::unique_ptr<EstimatorNode> make_estimator_node(const EstimatorKind& spec);
+// `input_units`: the engineering units of the inputs, in estimator_inputs() order (empty when
+// unknown); records name their fields' units from them.
+std::unique_ptr<EstimatorNode> make_estimator_node(const EstimatorKind& spec,
+                                                   std::span<const std::string> input_units = {});
 
 }  // namespace bw::engine

@@ -70,7 +70,9 @@ enum class SignalOp : std::uint8_t {
   sum,         // a + b + ...
   difference,  // a - b
   product,     // a * b * ...
-  ratio,       // a / b^exponent (undefined when b <= 0 and exponent is not 1)
+  ratio,       // a / (b / reference)^exponent (undefined when b <= 0 and exponent is not 1);
+               // with exponent 0, a passed through only while b > 0 (a gate)
+  gate,        // a while b > above; no value otherwise (a dP read only while flow runs)
 };
 
 struct SignalSpec {
@@ -81,6 +83,8 @@ struct SignalSpec {
   double gain = 1.0;
   double offset = 0.0;
   double exponent = 1.0;
+  double reference = 1.0;  // ratio: the value of b that a is referred to (> 0)
+  double above = 0.0;      // gate: b must be above this for a to pass
   Where where;
 };
 
@@ -156,12 +160,40 @@ struct HallSpec {
   double learn_s = 0;         // when the baseline slope is taken, after the first sample
 };
 
-using EstimatorKind =
-    std::variant<EwmaSpec, CusumSpec, EwmaChartSpec, RlsSpec, TrendSpec, RateSpec, HallSpec>;
+// The life of a filter element between change-outs (core/filter_life.h): feed it the
+// flow-normalised dP, gated to on-line flow. A change-out closes the element's life as a record
+// (kind "change_out") and restarts the estimators that name this one in `restart_on`.
+struct FilterLifeSpec {
+  std::string of;    // the flow-normalised dP, a signal with values only while on line
+  std::string flow;  // the flow through the filter, a signal
+  double memory_s = 7200;
+  double drop_fraction = 0.4;
+  double confirm_s = 900;
+  double stop_gap_s = 600;
+  double flow_time_unit_s = 86400;  // the flow's time unit: 86400 for a flow per day
+  bool stop_required = true;        // false: every confirmed step drop is a change-out
+};
+
+// A stretch during which a rate runs high, and the change of a quantity over it
+// (core/episode.h): an oil slug and its volume. Each episode that ends is a record
+// (kind "episode").
+struct EpisodeSpec {
+  std::string of;    // the quantity, a signal
+  std::string rate;  // its rate of change, a signal
+  double start_above = 0;
+  double end_below = 0;
+  double end_after_s = 0;
+};
+
+using EstimatorKind = std::variant<EwmaSpec, CusumSpec, EwmaChartSpec, RlsSpec, TrendSpec, RateSpec,
+                                   HallSpec, FilterLifeSpec, EpisodeSpec>;
 
 struct EstimatorSpec {
   std::string name;
   EstimatorKind kind;
+  // The name of an estimator that recognises events (filter_life); each event restarts this
+  // estimator from nothing (a trend of dP starts afresh on a clean element). Empty: never.
+  std::string restart_on;
   Where where;
 };
 
@@ -174,6 +206,11 @@ struct EstimatorSpec {
 //   rate:       per_hour
 //   hall:       integral (psi*d), volume (bbl), slope (psi*d/bbl), injectivity (bbl/d/psi),
 //               slope_change_percent (against the learned baseline slope)
+//   filter_life: level (reference normalised dP), online_hours, throughput, days_in_service,
+//               unexplained_drop (1 after a drop without a change-out, until the next one),
+//               change_outs (count)
+//   episode:    active (1 or 0), change (the quantity's change since the episode began; 0 when
+//               none is active), hours, peak_rate
 // (The engine owns the table; this comment documents the contract.)
 
 enum class LimitDirection : std::uint8_t { high, low };

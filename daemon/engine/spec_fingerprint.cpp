@@ -79,6 +79,23 @@ void put_estimator(StateWriter& w, const EstimatorKind& kind) {
                    w.put_double(s.max_interval_s);
                    w.put_double(s.learn_s);
                  },
+                 [&](const FilterLifeSpec& s) {
+                   w.put_string(s.of);
+                   w.put_string(s.flow);
+                   w.put_double(s.memory_s);
+                   w.put_double(s.drop_fraction);
+                   w.put_double(s.confirm_s);
+                   w.put_double(s.stop_gap_s);
+                   w.put_double(s.flow_time_unit_s);
+                   w.put_bool(s.stop_required);
+                 },
+                 [&](const EpisodeSpec& s) {
+                   w.put_string(s.of);
+                   w.put_string(s.rate);
+                   w.put_double(s.start_above);
+                   w.put_double(s.end_below);
+                   w.put_double(s.end_after_s);
+                 },
              },
              kind);
 }
@@ -164,11 +181,14 @@ std::string fingerprint(const AssetSpec& asset) {
     w.put_double(s.gain);
     w.put_double(s.offset);
     w.put_double(s.exponent);
+    w.put_double(s.reference);
+    w.put_double(s.above);
   }
   w.put_u64(asset.estimators.size());
   for (const auto& e : asset.estimators) {
     w.put_string(e.name);
     put_estimator(w, e.kind);
+    w.put_string(e.restart_on);
   }
   w.put_u64(asset.checks.size());
   for (const auto& c : asset.checks) {

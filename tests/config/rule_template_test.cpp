@@ -47,6 +47,33 @@ void expect_one(const Compiled& c, int line, int column, const std::string& mess
   EXPECT_EQ(c.diagnostics[0].message, message);
 }
 
+TEST(RuleTemplate, EpisodeEndMustBeBelowItsStart) {
+  const auto c = compile(kHeader +
+                         "estimators:\n"
+                         "  slug: {kind: episode, of: level, rate: level, start_above: 5, end_below: 6}\n");
+  expect_one(c, 6, 76, "estimator 'slug': key 'end_below': must be below start_above (5), got 6");
+}
+
+TEST(RuleTemplate, RestartOnIsReadForEveryEstimatorKind) {
+  const auto c = compile(kHeader +
+                         "estimators:\n"
+                         "  life: {kind: filter_life, of: level, flow: level, drop_fraction: 0.5}\n"
+                         "  trend: {kind: trend, of: level, time_constant: 1h, restart_on: life}\n");
+  ASSERT_TRUE(c.diagnostics.empty()) << testing::dump(c.diagnostics);
+  ASSERT_EQ(c.asset.estimators.size(), 2u);
+  EXPECT_EQ(c.asset.estimators[1].restart_on, "life");
+  EXPECT_TRUE(std::holds_alternative<engine::FilterLifeSpec>(c.asset.estimators[0].kind));
+}
+
+TEST(RuleTemplate, DropFractionMustLieStrictlyBetweenZeroAndOne) {
+  const auto c = compile(kHeader +
+                         "estimators:\n"
+                         "  life: {kind: filter_life, of: level, flow: level, drop_fraction: 1}\n");
+  ASSERT_EQ(c.diagnostics.size(), 1u) << testing::dump(c.diagnostics);
+  EXPECT_NE(c.diagnostics[0].message.find("drop_fraction"), std::string::npos)
+      << c.diagnostics[0].message;
+}
+
 TEST(RuleTemplate, TemplateKeyMustEqualTheFileName) {
   const auto c = compile("template: other\ndescription: test\ninputs: {level: {unit: ft}}\n");
   expect_one(c, 1, 11,
@@ -63,7 +90,7 @@ TEST(RuleTemplate, UnknownKindSuggestsTheNearest) {
   const auto c = compile(kHeader + "estimators:\n  level_mean: {kind: ewm, of: level}\n");
   expect_one(c, 6, 22,
              "estimator 'level_mean': key 'kind': expected one of ewma, cusum, ewma_chart, rls, "
-             "trend, rate, hall, got 'ewm'; did you mean 'ewma'?");
+             "trend, rate, hall, filter_life, episode, got 'ewm'; did you mean 'ewma'?");
 }
 
 TEST(RuleTemplate, HeadStartMustBeBelowTheDecisionInterval) {

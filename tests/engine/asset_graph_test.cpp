@@ -74,6 +74,37 @@ TEST(AssetGraph, AnEstimatorNameAloneIsNotASignal) {
   EXPECT_TRUE(mentions(analyse_asset(asset), "e.g. 'smooth.mean'"));
 }
 
+TEST(AssetGraph, RestartOnMustNameAFilterLifeEstimatorAndOrdersItFirst) {
+  AssetSpec asset = level_asset();
+  asset.estimators.push_back({.name = "trend",
+                              .kind = TrendSpec{.of = "level", .time_constant_s = 60},
+                              .restart_on = "life"});
+  asset.estimators.push_back(
+      {.name = "life", .kind = FilterLifeSpec{.of = "level", .flow = "level"}});
+  const AssetGraph graph = analyse_asset(asset);
+  ASSERT_TRUE(graph.ok()) << graph.problems[0].message;
+  ASSERT_EQ(graph.order.size(), 2u);
+  EXPECT_EQ(graph.order[0], (GraphNode{GraphNode::Kind::estimator, 1}));  // life before trend
+
+  AssetSpec wrong = level_asset();
+  wrong.estimators.push_back({.name = "smooth", .kind = EwmaSpec{.of = "level", .time_constant_s = 5}});
+  wrong.estimators.push_back({.name = "trend",
+                              .kind = TrendSpec{.of = "level", .time_constant_s = 60},
+                              .restart_on = "smooth"});
+  wrong.estimators.push_back({.name = "rate",
+                              .kind = RateSpec{.of = "level", .time_constant_s = 60},
+                              .restart_on = "nothing"});
+  const AssetGraph bad = analyse_asset(wrong);
+  EXPECT_TRUE(mentions(bad, "restart_on 'smooth' is a ewma, which recognises no events"));
+  EXPECT_TRUE(mentions(bad, "restart_on 'nothing' names no estimator"));
+}
+
+TEST(AssetGraph, GateAndRatioTakeTwoOperands) {
+  AssetSpec asset = level_asset();
+  asset.signals.push_back({.name = "g", .op = SignalOp::gate, .operands = {"level"}});
+  EXPECT_TRUE(mentions(analyse_asset(asset), "signal 'g' (gate) takes exactly 2 operands, not 1"));
+}
+
 }  // namespace
 }  // namespace bw::engine
 

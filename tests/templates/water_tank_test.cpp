@@ -78,6 +78,15 @@ TEST(WaterTankTemplate, OilSlugRaisesWithinFifteenMinutes) {
   EXPECT_GE(delay_min, 5.0);  // the on-delay alone
   EXPECT_LE(delay_min, 15.0);
   EXPECT_FALSE(first_raised(events, "overflow_ahead").has_value());
+  // The slug brings 30 bbl/h; the episode counts from a few minutes after the onset, so the
+  // 20 bbl slug volume limit is passed about 20 / 30.6 h = 39 min plus those minutes in.
+  const auto large = first_raised(events, "slug_volume_large");
+  ASSERT_TRUE(large.has_value()) << ::testing::PrintToString(raised_list(events));
+  const double large_min = (*large - slug_h) * 60.0;
+  std::printf("[ figures ] slug_volume_large (20 bbl) raised %.1f min after the slug began\n",
+              large_min);
+  EXPECT_GE(large_min, 39.0);
+  EXPECT_LE(large_min, 50.0);
 }
 
 }  // namespace
