@@ -39,7 +39,8 @@
 // sum over every row.
 //
 // Pure and deterministic: no clock, no I/O. Invariants: every count is the number of alerts in
-// that state; status() agrees with the counts (asserted in roll_up_site).
+// that state; the site's figures are the sum of its rows, and its status word is the worst of
+// its rows' (asserted in roll_up_site).
 #pragma once
 
 #include <array>
