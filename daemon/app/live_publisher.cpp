@@ -3,6 +3,7 @@
 #include "core/utc_text.h"
 #include "io/alert_log.h"
 #include "io/json_text.h"
+#include "io/site_health_json.h"
 
 namespace bw::app {
 
@@ -76,6 +77,12 @@ std::vector<io::OutboxMessage> LivePublisher::take(core::SensorTime now) {
     queue(prefix_ + "/summary/" + asset, summary_of(asset, now), true, now);
   }
   changed_assets_.clear();
+  // Compared whole rather than on transitions: a shelve running out or a restore changes it too.
+  engine::SiteHealth health = engine::roll_up_site(engine_.alerts(), engine_.site());
+  if (!published_health_ || *published_health_ != health) {
+    queue(site_health_topic(), io::site_health_to_json(health, now), true, now);
+    published_health_ = std::move(health);
+  }
   return std::exchange(queued_, {});
 }
 

@@ -6,11 +6,15 @@
 //                                   (chattering held, floods summarised), QoS 1;
 //   <prefix>/summary/<asset>        retained, QoS 1: the asset's alerts that are not normal, after
 //                                   every change, so a dashboard or a tablet sees the present;
+//   <prefix>/site_health            retained, QoS 1: the site's health roll-up (status word, counts
+//                                   by ISA-18.2 state and priority, per asset; io/site_health_json.h),
+//                                   at the first take() after start and whenever it changes;
 //   <prefix>/status                 retained: "online"/"offline" (the last will), published by the
 //                                   daemon directly, not through the outbox.
 // Not thread-safe: lives on the daemon's strand.
 #pragma once
 
+#include <optional>
 #include <set>
 #include <string>
 #include <vector>
@@ -18,6 +22,7 @@
 #include "engine/alert.h"
 #include "engine/engine.h"
 #include "engine/notification_policy.h"
+#include "engine/site_health.h"
 #include "io/state_store.h"
 
 namespace bw::app {
@@ -30,10 +35,12 @@ class LivePublisher final : public engine::AlertSink {
   void on_transition(const engine::AlertTransition& transition) override;
   // Time passes: the policy's chattering and flood ends.
   void advance(core::SensorTime now);
-  // The messages made since the last take(), summaries of changed assets last.
+  // The messages made since the last take(), summaries of changed assets and then the site
+  // health (when it changed) last.
   std::vector<io::OutboxMessage> take(core::SensorTime now);
 
   std::string status_topic() const { return prefix_ + "/status"; }
+  std::string site_health_topic() const { return prefix_ + "/site_health"; }
 
  private:
   void queue(std::string topic, std::string payload, bool retained, core::SensorTime t);
@@ -45,6 +52,7 @@ class LivePublisher final : public engine::AlertSink {
   engine::NotificationPolicy& policy_;
   std::vector<io::OutboxMessage> queued_;
   std::set<std::string> changed_assets_;
+  std::optional<engine::SiteHealth> published_health_;  // the last one queued
 };
 
 }  // namespace bw::app

@@ -27,7 +27,10 @@ verbs:
         write the built-in example site and an invented history to DIR (default: a new
         temporary folder) and replay it
   state --dir DIR [--journal N]
-        show what a state store holds: position, checkpoints, the last N journal entries
+        show what a state store holds: position, checkpoints, the last N journal entries,
+        and the site's health (which assets need a person, how badly, since when)
+  state --rank DIR...
+        read the state stores of several sites and list the sites in visit order
   version
         print the version
 

@@ -234,6 +234,7 @@ int replay(const ReplayRequest& request) {
   if (notifications && !keeper && engine.clock()) notifications->advance(*engine.clock());
   const bool written = flush_outputs();
   const bool to_stdout = request.alerts == "-";
+  const engine::SiteHealth health = engine::roll_up_site(engine.alerts(), engine.site());
   ReplayFigures figures{
       .input = request.input.string(),
       .alerts_destination = to_stdout ? "standard output" : request.alerts.string(),
@@ -251,6 +252,8 @@ int replay(const ReplayRequest& request) {
       .notifications_sent = notifications ? notifications->sent() : 0,
       .notifications_held = notifications ? notifications->held() : 0,
       .notifications_destination = request.notifications.string(),
+      .site_health = &health,
+      .last_event = engine.clock(),
   };
   std::fputs(format_replay_summary(figures).c_str(), to_stdout ? stderr : stdout);
   if (!written) {

@@ -4,6 +4,7 @@
 #include <cassert>
 #include <cstdio>
 
+#include "app/site_health_text.h"
 #include "core/utc_text.h"
 #include "io/json_text.h"
 
@@ -80,6 +81,7 @@ std::string format_replay_summary(const ReplayFigures& f) {
     out += line("time: %.2f s, %.2f million samples per second", f.wall_seconds,
                 static_cast<double>(e.samples) / f.wall_seconds / 1e6);
   }
+  if (f.site_health != nullptr) out += format_site_health(*f.site_health, f.last_event);
   return out;
 }
 

@@ -1,12 +1,15 @@
-// The text a person reads after a replay: what was read, what was refused and why, what fired.
+// The text a person reads after a replay: what was read, what was refused and why, what fired,
+// and last the site's health roll-up as the history leaves it.
 // Pure formatting of figures gathered elsewhere.
 #pragma once
 
+#include <optional>
 #include <string>
 
 #include "app/alert_tally.h"
 #include "app/state_keeper.h"
 #include "engine/engine.h"
+#include "engine/site_health.h"
 #include "io/history_csv.h"
 
 namespace bw::app {
@@ -28,6 +31,8 @@ struct ReplayFigures {
   std::uint64_t notifications_sent = 0;
   std::uint64_t notifications_held = 0;
   std::string notifications_destination;  // empty: no notifications file asked for
+  const engine::SiteHealth* site_health = nullptr;  // at the end of the history
+  std::optional<core::SensorTime> last_event;       // the engine's clock at the end
 };
 
 std::string format_replay_summary(const ReplayFigures& figures);

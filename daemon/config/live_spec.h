@@ -32,7 +32,9 @@
 //       topic_prefix: brinewatch/dry-creek-swd4   default "brinewatch/" + the site name's form
 //                                      above; no wildcard. Alerts go to <prefix>/alerts (QoS 1),
 //                                      asset summaries to <prefix>/summary/<asset> (retained),
-//                                      daemon status to <prefix>/status (retained, last will)
+//                                      the site health roll-up to <prefix>/site_health
+//                                      (retained), daemon status to <prefix>/status (retained,
+//                                      last will)
 //     commands:                        optional
 //       topic: brinewatch/dry-creek-swd4/commands/+   '+' last and no other wildcard: the last
 //                                      level is the id of the client that sent the command

@@ -60,4 +60,11 @@ std::string_view to_string(Priority priority) {
   return "unknown";
 }
 
+std::optional<Priority> priority_from_string(std::string_view name) {
+  for (const Priority p : {Priority::low, Priority::medium, Priority::high, Priority::urgent}) {
+    if (to_string(p) == name) return p;
+  }
+  return std::nullopt;
+}
+
 }  // namespace bw::engine

@@ -44,6 +44,8 @@ enum class TransitionCause : std::uint8_t {
 std::string_view to_string(AlertEvent event);
 std::string_view to_string(TransitionCause cause);
 std::string_view to_string(Priority priority);
+// The priority named by to_string(), or none for any other text.
+std::optional<Priority> priority_from_string(std::string_view name);
 
 // For checks that look ahead: when the trend is expected to reach the limit.
 struct Forecast {

@@ -11,7 +11,6 @@ namespace bw::engine {
 namespace {
 
 constexpr std::uint8_t kEngineStateVersion = 1;
-constexpr std::string_view kAssetScopePrefix = "asset:";
 constexpr std::string_view kEngineScope = "engine";
 
 // Counts transitions on their way to the caller's sink.

@@ -73,6 +73,8 @@ class Engine {
   static constexpr auto kAdvanceStep = std::chrono::seconds(1);
   static constexpr std::string_view kDaemonAsset = "brinewatch";
   static constexpr std::string_view kAlertBookScope = "alert_book";
+  // Each asset's checkpoint scope is this prefix followed by the asset's name.
+  static constexpr std::string_view kAssetScopePrefix = "asset:";
   // state_store_reset: the state database was damaged, moved aside, and started afresh.
   static constexpr std::array<std::string_view, 1> kDaemonChecks = {"state_store_reset"};
 

@@ -423,6 +423,29 @@ Result<std::vector<Checkpoint>> StateStore::load_checkpoints() const {
   }
 }
 
+namespace {
+
+// Every row `select` (over kJournalColumns) yields, as journal entries.
+Result<std::vector<JournalEntry>> journal_rows(SqliteStatement& select) {
+  std::vector<JournalEntry> entries;
+  for (;;) {
+    auto row = select.step();
+    if (!row) return row.error();
+    if (!row.value()) return entries;
+    JournalEntry& entry = entries.emplace_back();
+    entry.seq = select.column_int(0);
+    entry.time_us = select.column_int(1);
+    for (std::size_t i = 0; i < kJournalText.size(); ++i) {
+      entry.*kJournalText[i] = select.column_text(2 + static_cast<int>(i));
+    }
+    if (!select.column_is_null(kJournalValueColumn)) {
+      entry.value = select.column_double(kJournalValueColumn);
+    }
+  }
+}
+
+}  // namespace
+
 Result<std::vector<JournalEntry>> StateStore::read_journal(std::int64_t after_seq,
                                                            std::size_t limit) const {
   auto select = SqliteStatement::prepare(*connection_,
@@ -432,21 +455,18 @@ Result<std::vector<JournalEntry>> StateStore::read_journal(std::int64_t after_se
   select->bind_int(1, after_seq);
   constexpr auto kNoLimit = static_cast<std::size_t>(std::numeric_limits<std::int64_t>::max());
   select->bind_int(2, static_cast<std::int64_t>(std::min(limit, kNoLimit)));
-  std::vector<JournalEntry> entries;
-  for (;;) {
-    auto row = select->step();
-    if (!row) return row.error();
-    if (!row.value()) return entries;
-    JournalEntry& entry = entries.emplace_back();
-    entry.seq = select->column_int(0);
-    entry.time_us = select->column_int(1);
-    for (std::size_t i = 0; i < kJournalText.size(); ++i) {
-      entry.*kJournalText[i] = select->column_text(2 + static_cast<int>(i));
-    }
-    if (!select->column_is_null(kJournalValueColumn)) {
-      entry.value = select->column_double(kJournalValueColumn);
-    }
-  }
+  return journal_rows(select.value());
+}
+
+Result<std::vector<JournalEntry>> StateStore::latest_per_alert() const {
+  // The journal_by_alert index serves the grouping.
+  auto select = SqliteStatement::prepare(
+      *connection_, std::string("SELECT ") + kJournalColumns +
+                        " FROM journal WHERE seq IN (SELECT MAX(seq) FROM journal"
+                        " WHERE check_name <> '' AND event <> 'command_refused'"
+                        " GROUP BY asset, check_name) ORDER BY asset, check_name");
+  if (!select) return select.error();
+  return journal_rows(select.value());
 }
 
 Result<std::optional<std::string>> StateStore::meta(const std::string& key) const {

@@ -139,6 +139,9 @@ class StateStore {
   Result<std::vector<Checkpoint>> load_checkpoints() const;
   // At most `limit` entries with seq > after_seq, in seq order.
   Result<std::vector<JournalEntry>> read_journal(std::int64_t after_seq, std::size_t limit) const;
+  // The newest journal entry of each alert (asset, check), refused commands left out, ordered by
+  // (asset, check): the priority and state each alert was last journaled with.
+  Result<std::vector<JournalEntry>> latest_per_alert() const;
   Result<std::optional<std::string>> meta(const std::string& key) const;
   // At most `limit` outbox messages with id > after_id, oldest first.
   Result<std::vector<OutboxMessage>> read_outbox(std::int64_t after_id, std::size_t limit) const;

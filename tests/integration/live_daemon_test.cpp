@@ -139,6 +139,14 @@ class Crew {
     }
     return out;
   }
+  // Whether the last message on `topic` came as the broker's retained copy.
+  bool last_retained(const std::string& topic) const {
+    bool retained = false;
+    for (const auto& m : events_.messages()) {
+      if (m.message.topic == topic) retained = m.message.retained;
+    }
+    return retained;
+  }
   // Waits until `topic` has at least n messages.
   bool wait_for(const std::string& topic, std::size_t n, std::chrono::seconds timeout = 20s) const {
     const auto deadline = Clock::now() + timeout;
@@ -332,6 +340,55 @@ TEST(LiveDaemon, AFloodOfMalformedPayloadsIsCountedAndGoodSamplesKeepFlowing) {
   EXPECT_EQ(messages - (sent_good + sent_bad), (good - sent_good) + (rejected - sent_bad))
       << "every message is either a sample or a counted rejection";
   std::printf("[ figures  ] %llu messages: %llu samples, %llu rejected\n", messages, good, rejected);
+}
+
+// The roll-up follows the alert book: normal at start, "visit soon" once the high-priority level
+// alert is raised (rule in engine/site_health.h), still "visit soon" but acknowledged after the
+// crew acknowledges; a client that subscribes later gets the latest as the retained copy.
+TEST(LiveDaemon, SiteHealthIsRetainedAtStartAndFollowsTheAlerts) {
+  BW_NEED_MOSQUITTO();
+  MosquittoHarness broker;
+  ASSERT_TRUE(broker.start().ok()) << broker.log();
+  const fs::path dir = scratch("site-health");
+  const fs::path site = write_site(dir, broker);
+  const std::string topic = std::string(kPrefix) + "/site_health";
+  Crew crew(broker, "crew-health");
+  Daemon daemon(site, dir / "daemon.log");
+  ASSERT_TRUE(crew.wait_for(topic, 1)) << "published once at start" << daemon.log();
+  std::string health = crew.payloads(topic).back();
+  EXPECT_EQ(field(health, "site"), "Test Flats SWD 1");
+  EXPECT_EQ(field(health, "status"), "normal") << health;
+  EXPECT_NE(health.find(R"("assets":[{"asset":"tank_a","status":"normal")"), std::string::npos)
+      << health;
+
+  const auto now = swing(1)[0].epoch_s + 3600;
+  crew.publish("tf1/TK1/LEVEL", "{\"value\": 17.0, \"time\": " + std::to_string(now) + "}");
+  ASSERT_TRUE(crew.wait_for(topic, 2)) << daemon.log();
+  health = crew.payloads(topic).back();
+  EXPECT_EQ(field(health, "status"), "visit soon") << health;
+  EXPECT_NE(health.find(R"("unacknowledged":{"low":0,"medium":0,"high":1,"urgent":0})"),
+            std::string::npos)
+      << health;
+  EXPECT_NE(health.find(R"("worst_active_priority":"high")"), std::string::npos) << health;
+  EXPECT_FALSE(field(health, "oldest_unacknowledged").empty()) << health;
+
+  crew.publish(std::string(kPrefix) + "/commands/ops-1",
+               R"({"command": "acknowledge", "asset": "tank_a", "check": "level_high", )"
+               R"("who": "Dana Ortiz", "reason": "driving out"})");
+  ASSERT_TRUE(crew.wait_for(topic, 3)) << daemon.log();
+  health = crew.payloads(topic).back();
+  EXPECT_EQ(field(health, "status"), "visit soon") << "acknowledged is not resolved: " << health;
+  EXPECT_NE(health.find(R"("acknowledged":{"low":0,"medium":0,"high":1,"urgent":0})"),
+            std::string::npos)
+      << health;
+  EXPECT_NE(health.find(R"("oldest_unacknowledged":null)"), std::string::npos) << health;
+
+  Crew late(broker, "crew-late");
+  ASSERT_TRUE(late.wait_for(topic, 1));
+  EXPECT_EQ(late.payloads(topic).back(), health) << "the broker keeps the latest";
+  EXPECT_TRUE(late.last_retained(topic));
+  EXPECT_EQ(crew.payloads(topic).size(), 3u) << "published only when it changed";
+  EXPECT_EQ(daemon.stop(), 0) << daemon.log();
 }
 
 }  // namespace

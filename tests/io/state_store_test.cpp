@@ -261,6 +261,32 @@ TEST(StateStore, JournalIsReadInPagesAfterAGivenSeq) {
   EXPECT_TRUE(store->read_journal(0, 0).value().empty());
 }
 
+TEST(StateStore, TheLatestEntryOfEachAlertLeavesRefusedCommandsOut) {
+  ScratchDir scratch;
+  auto store = open_ok(scratch.path());
+  ASSERT_NE(store, nullptr);
+  StateStore::Batch batch;
+  batch.journal = {entry("raised", 1, 1.0), entry("acknowledged", 2, std::nullopt),
+                   entry("command_refused", 3, std::nullopt)};
+  JournalEntry other = entry("raised", 4, 2.0);
+  other.asset = "disposal_well";
+  other.check = "injectivity_low";
+  other.priority = "urgent";
+  batch.journal.push_back(other);
+  JournalEntry asset_wide = entry("command_refused", 5, std::nullopt);
+  asset_wide.check = "";
+  batch.journal.push_back(asset_wide);
+  ASSERT_TRUE(store->commit(batch).ok());
+  const auto latest = store->latest_per_alert();
+  ASSERT_TRUE(latest.ok()) << latest.error().message;
+  ASSERT_EQ(latest.value().size(), 2u);
+  EXPECT_EQ(latest.value()[0].asset, "disposal_well");
+  EXPECT_EQ(latest.value()[0].priority, "urgent");
+  EXPECT_EQ(latest.value()[1].asset, "injection_pump_2");
+  EXPECT_EQ(latest.value()[1].seq, 2) << "the refused command at seq 3 is not the alert's state";
+  EXPECT_EQ(latest.value()[1].event, "acknowledged");
+}
+
 TEST(StateStore, BatchThatFailsMidwayLeavesNothingBehind) {
   ScratchDir scratch;
   auto store = open_ok(scratch.path());
