@@ -28,6 +28,7 @@ struct ReplayFigures {
   std::uint64_t notifications_sent = 0;
   std::uint64_t notifications_held = 0;
   std::string notifications_destination;  // empty: no notifications file asked for
+  std::string records_destination;        // empty: no records file asked for
 };
 
 std::string format_replay_summary(const ReplayFigures& figures);
