@@ -23,6 +23,7 @@ class AlertTally final : public engine::AlertSink {
     ++(t.event == engine::AlertEvent::raised ? row.raised : row.cleared);
     next_.on_transition(t);
   }
+  void on_record(const engine::AssetRecord& r) override { next_.on_record(r); }
   // Keyed by (asset, check), in name order.
   const std::map<std::pair<std::string, std::string>, TallyRow>& rows() const { return rows_; }
 

@@ -5,6 +5,7 @@
 #include "app/command_message.h"
 #include "app/systemd_notify.h"
 #include "io/mqtt/json_samples.h"
+#include "io/zone_calendar.h"
 
 namespace bw::app {
 namespace {
@@ -38,7 +39,8 @@ std::string last_level(std::string_view topic) {
 
 }  // namespace
 
-LiveDaemon::LiveDaemon(engine::SiteSpec site, config::LiveSpec live, boost::asio::io_context& io)
+LiveDaemon::LiveDaemon(engine::SiteSpec site, config::LiveSpec live,
+                       std::unique_ptr<engine::LocalCalendar> calendar, boost::asio::io_context& io)
     : io_(io),
       strand_(boost::asio::make_strand(io)),
       tick_timer_(strand_),
@@ -51,7 +53,8 @@ LiveDaemon::LiveDaemon(engine::SiteSpec site, config::LiveSpec live, boost::asio
                   for (const auto& id : live_.commands->authorised) sources.push_back("mqtt:" + id);
                 }
                 return sources;
-              }()}),
+              }()},
+              std::move(calendar)),
       policy_(engine_.site().name, {}),
       publisher_(live_.outputs.topic_prefix, engine_, policy_),
       limits_{.max_payload_bytes = static_cast<std::size_t>(live_.limits.max_payload_bytes),
@@ -72,7 +75,10 @@ LiveDaemon::~LiveDaemon() = default;
 
 Result<std::unique_ptr<LiveDaemon>> LiveDaemon::create(engine::SiteSpec site, config::LiveSpec live,
                                                        boost::asio::io_context& io) {
-  std::unique_ptr<LiveDaemon> d(new LiveDaemon(std::move(site), std::move(live), io));
+  auto calendar = io::make_site_calendar(site.time_zone);
+  if (!calendar) return calendar.error();
+  std::unique_ptr<LiveDaemon> d(
+      new LiveDaemon(std::move(site), std::move(live), std::move(calendar.value()), io));
   auto opened = StateKeeper::open(d->live_.state.dir, d->engine_, &d->policy_, d->publisher_);
   if (!opened) return opened.error();
   d->keeper_ = std::move(opened.value().keeper);

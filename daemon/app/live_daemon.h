@@ -65,7 +65,8 @@ class LiveDaemon final : public io::MqttEvents {
 
  private:
   using Strand = boost::asio::strand<boost::asio::io_context::executor_type>;
-  LiveDaemon(engine::SiteSpec site, config::LiveSpec live, boost::asio::io_context& io);
+  LiveDaemon(engine::SiteSpec site, config::LiveSpec live,
+             std::unique_ptr<engine::LocalCalendar> calendar, boost::asio::io_context& io);
 
   static core::SensorTime wall_now();
   void schedule_tick();

@@ -4,6 +4,7 @@
 #include "io/alert_log.h"
 #include "io/json_text.h"
 #include "io/site_health_json.h"
+#include "io/record_log.h"
 
 namespace bw::app {
 
@@ -42,6 +43,10 @@ void LivePublisher::on_transition(const engine::AlertTransition& t) {
     queue(prefix_ + "/notifications", std::move(json), false, t.time);
   }
   changed_assets_.emplace(t.asset);
+}
+
+void LivePublisher::on_record(const engine::AssetRecord& record) {
+  queue(prefix_ + "/records", io::record_to_json(record), false, record.content.time);
 }
 
 void LivePublisher::advance(core::SensorTime now) { queue_notices(policy_.advance(now)); }

@@ -4,6 +4,8 @@
 //                                   "id", QoS 1 — the feed for consumers that keep their own books;
 //   <prefix>/notifications          what the crews should be told after the notification policy
 //                                   (chattering held, floods summarised), QoS 1;
+//   <prefix>/records                every record closed (io/record_log.h: daily figures, change-outs),
+//                                   JSON with its stable "id", QoS 1, not retained;
 //   <prefix>/summary/<asset>        retained, QoS 1: the asset's alerts that are not normal, after
 //                                   every change, so a dashboard or a tablet sees the present;
 //   <prefix>/site_health            retained, QoS 1: the site's health roll-up (status word, counts
@@ -33,6 +35,7 @@ class LivePublisher final : public engine::AlertSink {
                 engine::NotificationPolicy& policy);
 
   void on_transition(const engine::AlertTransition& transition) override;
+  void on_record(const engine::AssetRecord& record) override;
   // Time passes: the policy's chattering and flood ends.
   void advance(core::SensorTime now);
   // The messages made since the last take(), summaries of changed assets and then the site

@@ -18,11 +18,13 @@ verbs:
         validate a site file and its rule templates; print the compiled asset graph
   replay --config SITE.yaml --input HISTORY.csv [--alerts OUT.jsonl] [--strict]
          [--ignore-column NAME]... [--rules DIR]... [--commands COMMANDS.csv]
-         [--notifications OUT.jsonl] [--state DIR [--checkpoint-every DURATION]]
+         [--notifications OUT.jsonl] [--records OUT.jsonl]
+         [--state DIR [--checkpoint-every DURATION]]
         run a history file through the engine and write every alert transition;
         --commands applies the crew's commands at their times, --notifications writes
-        what the crews would be told (chattering and floods held back), --state keeps
-        (and resumes from) durable state in DIR
+        what the crews would be told (chattering and floods held back), --records writes
+        the records closed (daily injection figures, change-outs), --state keeps (and
+        resumes from) durable state in DIR
   demo [--dir DIR]
         write the built-in example site and an invented history to DIR (default: a new
         temporary folder) and replay it

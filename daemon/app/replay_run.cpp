@@ -14,13 +14,15 @@
 #include "engine/engine.h"
 #include "io/alert_log.h"
 #include "io/history_csv.h"
+#include "io/record_log.h"
+#include "io/zone_calendar.h"
 
 namespace bw::app {
 namespace {
 
 using SteadyClock = std::chrono::steady_clock;
 
-// Passes each transition to every receiver, in order.
+// Passes each transition and record to every receiver, in order.
 class FanOut final : public engine::AlertSink {
  public:
   void add(engine::AlertSink* sink) {
@@ -28,6 +30,9 @@ class FanOut final : public engine::AlertSink {
   }
   void on_transition(const engine::AlertTransition& t) override {
     for (auto* sink : sinks_) sink->on_transition(t);
+  }
+  void on_record(const engine::AssetRecord& r) override {
+    for (auto* sink : sinks_) sink->on_record(r);
   }
 
  private:
@@ -178,7 +183,12 @@ int replay(const ReplayRequest& request) {
   }
   engine::CommandPolicy command_policy;
   command_policy.authorised_sources.push_back(std::string(kReplayCommandSource));
-  engine::Engine engine(std::move(*loaded.site), command_policy);
+  auto calendar = io::make_site_calendar(time_zone);
+  if (!calendar) {
+    std::fprintf(stderr, "brinewatch replay: %s\n", calendar.error().message.c_str());
+    return 2;
+  }
+  engine::Engine engine(std::move(*loaded.site), command_policy, std::move(calendar.value()));
   engine::NotificationPolicy notification_policy(engine.site().name, {});
   std::unique_ptr<NotificationFeed> notifications;
   if (!request.notifications.empty()) {
@@ -189,14 +199,25 @@ int replay(const ReplayRequest& request) {
     }
     notifications = std::make_unique<NotificationFeed>(notification_policy, std::move(file.value()));
   }
+  std::unique_ptr<io::RecordLog> records;
+  if (!request.records.empty()) {
+    auto file = io::RecordLog::open(request.records, mode, hold);
+    if (!file) {
+      std::fprintf(stderr, "brinewatch replay: %s\n", file.error().message.c_str());
+      return 1;
+    }
+    records = std::move(file.value());
+  }
   FanOut outputs;
   outputs.add(log.value().get());
   outputs.add(notifications.get());
+  outputs.add(records.get());
   outputs.add(request.also_to);
   AlertTally tally(outputs);
   auto flush_outputs = [&] {
-    const bool ok = log.value()->flush();
-    return (notifications ? notifications->flush() : true) && ok;
+    bool ok = log.value()->flush();
+    ok = (notifications ? notifications->flush() : true) && ok;
+    return (records ? records->flush() : true) && ok;
   };
 
   std::unique_ptr<StateKeeper> keeper;
@@ -254,6 +275,7 @@ int replay(const ReplayRequest& request) {
       .notifications_destination = request.notifications.string(),
       .site_health = &health,
       .last_event = engine.clock(),
+      .records_destination = request.records.string(),
   };
   std::fputs(format_replay_summary(figures).c_str(), to_stdout ? stderr : stdout);
   if (!written) {

@@ -1,6 +1,6 @@
 // One replay: load a site, stream a history file through the engine (with the crew's commands
-// at their times, and optionally with durable state), write every alert transition, print a
-// summary. Shared by the replay and demo verbs.
+// at their times, and optionally with durable state), write every alert transition (and every
+// record, when asked), print a summary. Shared by the replay and demo verbs.
 #pragma once
 
 #include <filesystem>
@@ -20,6 +20,7 @@ struct ReplayRequest {
   std::vector<std::filesystem::path> rule_dirs;
   std::filesystem::path commands;   // optional commands file (see commands_file.h)
   std::filesystem::path notifications;  // optional: what the crews would be told (JSON Lines)
+  std::filesystem::path records;        // optional: records closed (JSON Lines, io/record_log.h)
   std::filesystem::path state_dir;  // optional: restore from and save to this state store
   double checkpoint_every_s = 3600;  // event time between commits when state_dir is set
   engine::AlertSink* also_to = nullptr;  // optional second receiver of every transition

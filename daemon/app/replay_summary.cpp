@@ -77,6 +77,10 @@ std::string format_replay_summary(const ReplayFigures& f) {
                 static_cast<unsigned long long>(f.notifications_held),
                 f.notifications_destination.c_str());
   }
+  out += line("records: %llu closed%s%s", static_cast<unsigned long long>(e.records),
+              f.records_destination.empty() ? " (not written: no --records file)"
+                                            : ", written to ",
+              f.records_destination.c_str());
   if (f.wall_seconds > 0) {
     out += line("time: %.2f s, %.2f million samples per second", f.wall_seconds,
                 static_cast<double>(e.samples) / f.wall_seconds / 1e6);

@@ -33,6 +33,7 @@ struct ReplayFigures {
   std::string notifications_destination;  // empty: no notifications file asked for
   const engine::SiteHealth* site_health = nullptr;  // at the end of the history
   std::optional<core::SensorTime> last_event;       // the engine's clock at the end
+  std::string records_destination;        // empty: no records file asked for
 };
 
 std::string format_replay_summary(const ReplayFigures& figures);

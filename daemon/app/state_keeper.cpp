@@ -45,6 +45,17 @@ struct StateKeeper::Pending {
   }
 };
 
+// A record held until its commit lands, with the strings its views point into.
+struct StateKeeper::PendingRecord {
+  std::string site;
+  std::string asset;
+  std::string source;
+  engine::AssetRecord record;
+
+  explicit PendingRecord(const engine::AssetRecord& r)
+      : site(r.site), asset(r.asset), source(r.source), record{site, asset, source, r.content} {}
+};
+
 StateKeeper::StateKeeper(std::unique_ptr<io::StateStore> store, engine::Engine& engine,
                          engine::NotificationPolicy* policy, engine::AlertSink& next)
     : store_(std::move(store)), engine_(engine), policy_(policy), next_(next) {}
@@ -109,16 +120,24 @@ void StateKeeper::on_transition(const engine::AlertTransition& transition) {
   pending_.push_back(std::make_unique<Pending>(transition));
 }
 
+void StateKeeper::on_record(const engine::AssetRecord& record) {
+  pending_records_.push_back(std::make_unique<PendingRecord>(record));
+}
+
 Status StateKeeper::commit(core::SensorTime position, Depth depth) {
   // Pass on first, so the notification policy's checkpoint includes these transitions.
   for (; passed_on_ < pending_.size(); ++passed_on_) next_.on_transition(pending_[passed_on_]->transition);
+  for (; records_passed_on_ < pending_records_.size(); ++records_passed_on_) {
+    next_.on_record(pending_records_[records_passed_on_]->record);
+  }
+  const bool assets_too = depth == Depth::full || !pending_records_.empty();
   if (caught_up_) caught_up_(position);
   io::StateStore::Batch batch;
   for (const auto& p : pending_) batch.journal.push_back(p->entry);
   if (outbox_source_) batch.outbox = outbox_source_();
   batch.delivered = delivered_;
   for (auto& c : engine_.checkpoint()) {
-    if (depth == Depth::journal_only && c.scope != engine::Engine::kAlertBookScope) continue;
+    if (!assets_too && c.scope != engine::Engine::kAlertBookScope) continue;
     batch.checkpoints.push_back(
         {std::move(c.scope), std::move(c.definition), micros(position), std::move(c.state)});
   }
@@ -133,6 +152,8 @@ Status StateKeeper::commit(core::SensorTime position, Depth depth) {
   last_seq_ = seq.value();
   pending_.clear();
   passed_on_ = 0;
+  pending_records_.clear();
+  records_passed_on_ = 0;
   delivered_.erase(delivered_.begin(), delivered_.begin() + static_cast<std::ptrdiff_t>(batch.delivered.size()));
   if (after_commit_ && !after_commit_()) return Error{"writing the alert outputs failed"};
   return Ok{};

@@ -10,6 +10,11 @@
 // neither loses a journal entry nor repeats one; on restart, inputs at or before the position
 // are skipped. (A crash between (2) and (3) loses output lines, never journal entries.)
 //
+// Records (engine/asset_record.h) take the same path: held until commit, passed on to `next`
+// after the transitions, and written out by `after_commit`. Closing a record changes the state
+// of its asset, so a commit that carries records checkpoints the assets whatever its depth: a
+// restart never closes the same period twice.
+//
 // A damaged store found at open is moved aside by the store; the keeper then raises the
 // daemon's own alert saying so (Engine::report_daemon_event) when report_damage(t) is called:
 // at start-up on the wall clock live, at the first sample's time in replay, so that the
@@ -51,6 +56,7 @@ class StateKeeper final : public engine::AlertSink {
   StateKeeper& operator=(const StateKeeper&) = delete;
 
   void on_transition(const engine::AlertTransition& transition) override;
+  void on_record(const engine::AssetRecord& record) override;
 
   // Hooks of each commit: `caught_up(position)` once the buffered transitions have been passed
   // on (time-driven output up to the position, e.g. flood summaries); `after_commit()` once
@@ -80,7 +86,8 @@ class StateKeeper final : public engine::AlertSink {
   // Outbox messages after `after_id` that are not marked delivered, oldest first.
   Result<std::vector<io::OutboxMessage>> read_outbox(std::int64_t after_id, std::size_t limit) const;
 
-  std::size_t pending() const { return pending_.size(); }
+  // Transitions and records waiting for the next commit.
+  std::size_t pending() const { return pending_.size() + pending_records_.size(); }
   std::int64_t last_seq() const { return last_seq_; }
 
  private:
@@ -100,6 +107,9 @@ class StateKeeper final : public engine::AlertSink {
   // Each pending transition as a journal entry and, for the sink, a copy that owns its strings.
   struct Pending;
   std::vector<std::unique_ptr<Pending>> pending_;
+  struct PendingRecord;
+  std::vector<std::unique_ptr<PendingRecord>> pending_records_;
+  std::size_t records_passed_on_ = 0;
   std::int64_t last_seq_ = 0;
 };
 

@@ -16,11 +16,13 @@ int run_replay(const Arguments& args) {
   std::vector<std::string> rule_dirs;
   std::string commands;
   std::string notifications;
+  std::string records;
   std::string state_dir;
   std::string checkpoint_every = "1h";
   OptionParser parser("replay");
   parser.value("commands", commands);
   parser.value("notifications", notifications);
+  parser.value("records", records);
   parser.value("state", state_dir);
   parser.value("checkpoint-every", checkpoint_every);
   parser.value("config", config, true);
@@ -46,6 +48,7 @@ int run_replay(const Arguments& args) {
                  .rule_dirs = {rule_dirs.begin(), rule_dirs.end()},
                  .commands = commands,
                  .notifications = notifications,
+                 .records = records,
                  .state_dir = state_dir,
                  .checkpoint_every_s = *every});
 }

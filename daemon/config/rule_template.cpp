@@ -8,7 +8,8 @@ namespace bw::config {
 namespace {
 
 const std::vector<std::string_view> kTemplateTopKeys{
-    "template", "description", "parameters", "inputs", "signals", "estimators", "checks"};
+    "template", "description", "parameters", "inputs", "signals", "estimators", "checks",
+    "records"};
 
 // Calls `read` for every uniquely named entry of a section mapping ("inputs", "signals"...),
 // with a label such as "signal 'volume'" for messages.
@@ -84,6 +85,43 @@ bool validate(FieldReader& reader, const ConfigNode& map, const engine::LimitChe
     return false;
   }
   return true;
+}
+
+// Each statistic of a record field takes only the keys it uses.
+bool validate(FieldReader& reader, const ConfigNode& map, const engine::RecordFieldSpec& spec,
+              std::string_view what) {
+  const bool total = spec.stat == engine::RecordStat::total;
+  const bool above = spec.stat == engine::RecordStat::time_above;
+  struct Rule {
+    std::string_view key;
+    bool given;
+    bool wanted;
+    std::string_view why;
+  };
+  const std::array<Rule, 3> rules{{
+      {"rate_per", spec.rate_per_s.has_value(), total,
+       "the time unit of the rate, e.g. 1d for a rate in bbl/d"},
+      {"unit", !spec.unit.empty(), total, "the unit of the total, e.g. bbl"},
+      {"above", spec.above.has_value(), above, "the threshold the time is counted above"},
+  }};
+  bool ok = true;
+  for (const Rule& rule : rules) {
+    if (rule.wanted && !rule.given) {
+      reader.error(map, std::string(what) + ": stat '" +
+                            std::string(kRecordStatNames[static_cast<std::size_t>(spec.stat)].first) +
+                            "' needs key '" + std::string(rule.key) + "' (" +
+                            std::string(rule.why) + ")");
+      ok = false;
+    } else if (!rule.wanted && rule.given) {
+      reader.error(*map.find(rule.key),
+                   std::string(what) + ": key '" + std::string(rule.key) +
+                       "' does not apply to stat '" +
+                       std::string(kRecordStatNames[static_cast<std::size_t>(spec.stat)].first) +
+                       "' (" + std::string(rule.why) + ")");
+      ok = false;
+    }
+  }
+  return ok;
 }
 
 // Reads one kind of a variant (estimator or check kind) from a mapping that also holds the
@@ -193,6 +231,33 @@ void read_parameter(FieldReader& reader, const MapEntry& entry, const std::strin
   rule.parameters.push_back(std::move(decl));
 }
 
+void read_record(FieldReader& reader, const SourceText& source, const MapEntry& entry,
+                 const std::string& what, engine::AssetSpec& asset) {
+  engine::RecordSpec record;
+  record.name = entry.key;
+  record.where = where_of(source, entry);
+  reader.check_keys(entry.value, allowed_keys(kRecordKeys, {"fields"}), what);
+  const std::size_t errors_before = reader.error_count();
+  read_keys(reader, entry.value, kRecordKeys, record, what);
+  const ConfigNode* fields = reader.require(entry.value, "fields", what);
+  for_each_named(reader, fields, "fields", what + " field",
+                 [&](const MapEntry& field_entry, const std::string& field_what) {
+                   engine::RecordFieldSpec field;
+                   field.name = field_entry.key;
+                   field.where = where_of(source, field_entry);
+                   reader.check_keys(field_entry.value, allowed_keys(kRecordFieldKeys), field_what);
+                   if (read_keys(reader, field_entry.value, kRecordFieldKeys, field, field_what) &&
+                       validate(reader, field_entry.value, field, field_what)) {
+                     record.fields.push_back(std::move(field));
+                   }
+                 });
+  if (fields != nullptr && (fields->kind == ConfigNode::Kind::null ||
+                            (fields->is_map() && fields->entries.empty()))) {
+    reader.error(*fields, what + ": key 'fields': list at least one field");
+  }
+  if (reader.error_count() == errors_before) asset.records.push_back(std::move(record));
+}
+
 }  // namespace
 
 std::optional<RuleTemplate> read_template(const ConfigNode& document, const SourceText& source,
@@ -289,6 +354,11 @@ void instantiate_template(const RuleTemplate& rule, const SourceText& source,
                      check.kind = std::move(*kind);
                      asset.checks.push_back(std::move(check));
                    }
+                 });
+
+  for_each_named(reader, doc.find("records"), "records", "record",
+                 [&](const MapEntry& entry, const std::string& what) {
+                   read_record(reader, source, entry, what, asset);
                  });
 }
 

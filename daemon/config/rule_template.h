@@ -2,7 +2,8 @@
 //
 // read_template() checks a template's top level and its parameter declarations (identifier
 // names; a default that is a number, or a duration when the unit is "s"; min <= default <= max).
-// instantiate_template() builds an asset's inputs, derived signals, estimators and checks from
+// instantiate_template() builds an asset's inputs, derived signals, estimators, checks and
+// periodic records from
 // the template with one set of parameter values, checking every key against the schema
 // (config/schema.h): unknown keys (with a suggestion), wrong types, values out of bounds, missing
 // required keys, parameter references to nothing, and operand counts of derived signals.

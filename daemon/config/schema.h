@@ -16,6 +16,9 @@
 //   checks:     {<name>: {kind, priority, message, latching, suppressed_when, ...}}
 //               kind: limit, statistical, time_to_limit, rate, stale, flatline, out_of_range, ne43
 //               suppressed_when: {of: <signal>, below: <number>} or {of: <signal>, above: <number>}
+//   records:    {<name>: {kind: daily, day_start, fields: {<field>: kRecordFieldKeys}}}
+//               stat: total (needs rate_per and unit), max, min, time_average, time_above (needs
+//               above)
 // Any numeric value in a template may name a parameter instead.
 // Site schema (see site_loader.h): site {name, time_zone}, rules [folders], assets {<name>:
 // {template, description, tags {role: tag}, parameters {name: value}}}, live {...} (live_spec.h).
@@ -55,6 +58,7 @@ using Member = std::variant<
     std::vector<std::string> Spec::*, std::optional<double> Spec::*, engine::BaselineSpec Spec::*,
     engine::Priority Spec::*, engine::LimitDirection Spec::*, engine::SignalOp Spec::*,
     engine::Measurement Spec::*, engine::RateDirection Spec::*, engine::HallWindowBasis Spec::*,
+    engine::RecordPeriod Spec::*, engine::RecordStat Spec::*,
     std::optional<engine::SuppressionSpec> Spec::*, PayloadFormat Spec::*, RangeMembers<Spec>>;
 
 template <class Spec>
@@ -102,6 +106,16 @@ inline constexpr std::array<std::pair<std::string_view, engine::Measurement>, 7>
 inline constexpr std::array<std::pair<std::string_view, engine::HallWindowBasis>, 2>
     kHallBasisNames{
         {{"volume", engine::HallWindowBasis::volume}, {"time", engine::HallWindowBasis::time}}};
+
+inline constexpr std::array<std::pair<std::string_view, engine::RecordPeriod>, 1>
+    kRecordPeriodNames{{{"daily", engine::RecordPeriod::daily}}};
+inline constexpr std::array<std::pair<std::string_view, engine::RecordStat>, 5> kRecordStatNames{{
+    {"total", engine::RecordStat::total},
+    {"max", engine::RecordStat::max},
+    {"min", engine::RecordStat::min},
+    {"time_average", engine::RecordStat::time_average},
+    {"time_above", engine::RecordStat::time_above},
+}};
 
 inline constexpr std::array<std::pair<std::string_view, PayloadFormat>, 2> kPayloadFormatNames{
     {{"json", PayloadFormat::json}, {"sparkplug", PayloadFormat::sparkplug}}};
@@ -304,6 +318,22 @@ inline constexpr std::array<Key<engine::Ne43CheckSpec>, 1> kNe43CheckKeys{{
     {"of", &engine::Ne43CheckSpec::of, kAnyValue, false, true},
 }};
 
+// day_start is below 24h; `fields` is read by hand (a mapping of kRecordFieldKeys).
+inline constexpr Bounds kDayStart{.min = 0.0, .max = 86400.0, .max_open = true};
+inline constexpr std::array<Key<engine::RecordSpec>, 2> kRecordKeys{{
+    {"kind", &engine::RecordSpec::period, kAnyValue, false, true},
+    {"day_start", &engine::RecordSpec::day_start_s, kDayStart, true},
+}};
+
+// Which keys each stat takes is checked in rule_template.cpp.
+inline constexpr std::array<Key<engine::RecordFieldSpec>, 5> kRecordFieldKeys{{
+    {"of", &engine::RecordFieldSpec::of, kAnyValue, false, true},
+    {"stat", &engine::RecordFieldSpec::stat, kAnyValue, false, true},
+    {"rate_per", &engine::RecordFieldSpec::rate_per_s, kPositive, true},
+    {"unit", &engine::RecordFieldSpec::unit},
+    {"above", &engine::RecordFieldSpec::above},
+}};
+
 inline constexpr std::array<Key<engine::SiteSpec>, 2> kSiteKeys{{
     {"name", &engine::SiteSpec::name, kAnyValue, false, true},
     {"time_zone", &engine::SiteSpec::time_zone, kAnyValue, false, true},
@@ -455,6 +485,12 @@ bool read_keys(FieldReader& reader, const ConfigNode& map, const std::array<Key<
             },
             [&](std::optional<engine::SuppressionSpec> Spec::*m) {
               read_suppression(reader, *value, what, out.*m);
+            },
+            [&](engine::RecordPeriod Spec::*m) {
+              store(m, reader.choice<engine::RecordPeriod>(*value, what, kRecordPeriodNames));
+            },
+            [&](engine::RecordStat Spec::*m) {
+              store(m, reader.choice<engine::RecordStat>(*value, what, kRecordStatNames));
             },
             [&](PayloadFormat Spec::*m) {
               store(m, reader.choice<PayloadFormat>(*value, what, kPayloadFormatNames));

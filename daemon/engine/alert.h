@@ -12,6 +12,7 @@
 
 #include "core/sensor_time.h"
 #include "engine/alert_lifecycle.h"
+#include "engine/asset_record.h"
 #include "engine/site_model.h"
 
 namespace bw::engine {
@@ -75,11 +76,14 @@ struct AlertTransition {
   std::string_view source;  // commands: where it came from, e.g. "mqtt:client-7"
 };
 
-// Receives transitions in the order the engine produces them. Called on the engine's thread.
+// Receives what the engine produces, in order: alert transitions, and records (asset_record.h),
+// each handed over after the transitions of the sample or time step that closed it. A receiver
+// interested in transitions only keeps the default on_record. Called on the engine's thread.
 class AlertSink {
  public:
   virtual ~AlertSink() = default;
   virtual void on_transition(const AlertTransition& transition) = 0;
+  virtual void on_record(const AssetRecord& record) { (void)record; }
 };
 
 }  // namespace bw::engine

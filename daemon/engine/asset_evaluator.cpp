@@ -13,7 +13,7 @@ namespace bw::engine {
 namespace {
 
 // Layout of save(); bump when it changes.
-constexpr std::uint8_t kStateVersion = 1;
+constexpr std::uint8_t kStateVersion = 2;
 constexpr std::string_view kQualityMessage = "Bad quality from the instrument";
 
 core::Micros micros(double seconds) {
@@ -47,9 +47,36 @@ std::optional<Forecast> get_forecast(StateReader& in) {
 
 }  // namespace
 
-AssetEvaluator::AssetEvaluator(const AssetSpec& spec, std::string_view site_name)
-    : spec_(spec), site_name_(site_name), signals_(spec) {
+AssetEvaluator::AssetEvaluator(const AssetSpec& spec, std::string_view site_name,
+                               LocalCalendar* calendar)
+    : spec_(spec),
+      site_name_(site_name),
+      signals_(spec),
+      calendar_(calendar != nullptr ? *calendar : utc_calendar_) {
   compile();
+  compile_records();
+}
+
+void AssetEvaluator::compile_records() {
+  std::vector<std::vector<std::uint8_t>> reached;
+  for (std::size_t i = 0; i < spec_.inputs.size(); ++i) reached.push_back(signals_.reached_from(i));
+  records_.reserve(spec_.records.size());
+  for (const RecordSpec& spec : spec_.records) {
+    std::vector<std::string> units;
+    std::vector<std::size_t> slots;
+    std::vector<std::vector<std::size_t>> inputs;
+    for (const RecordFieldSpec& field : spec.fields) {
+      const std::size_t slot = signals_.slot_of(field.of);
+      slots.push_back(slot);
+      units.push_back(signals_.unit(slot));
+      auto& from = inputs.emplace_back();
+      for (std::size_t i = 0; i < reached.size(); ++i) {
+        if (reached[i][slot]) from.push_back(i);
+      }
+    }
+    records_.push_back({PeriodicRecord(spec, std::move(units), calendar_), std::move(slots),
+                        std::move(inputs)});
+  }
 }
 
 void AssetEvaluator::compile() {
@@ -140,6 +167,33 @@ void AssetEvaluator::start_clock(core::SensorTime t) {
   if (started_) return;
   started_ = t;
   for (auto& input : inputs_) input.heard = t;
+  for (auto& step : records_) step.record.start(t);
+}
+
+void AssetEvaluator::accumulate_records(core::SensorTime t) {
+  for (auto& step : records_) step.record.accumulate(t);
+}
+
+void AssetEvaluator::hold_records() {
+  for (auto& step : records_) {
+    for (std::size_t f = 0; f < step.slots.size(); ++f) {
+      const std::size_t slot = step.slots[f];
+      const bool inputs_ok = std::all_of(
+          step.inputs[f].begin(), step.inputs[f].end(),
+          [&](std::size_t i) { return inputs_[i].usable && !inputs_[i].silent; });
+      step.record.hold(f, signals_.value(slot), inputs_ok && signals_.has_value(slot));
+    }
+  }
+}
+
+void AssetEvaluator::report_estimator_records(ConditionSink& sink) {
+  auto& records = signals_.records();
+  if (records.empty()) return;
+  for (auto& r : records) {
+    sink.on_record({site_name_, spec_.name, spec_.estimators[r.estimator].name,
+                    std::move(r.content)});
+  }
+  signals_.clear_records();
 }
 
 bool AssetEvaluator::held(const CheckStep& check) const {
@@ -159,6 +213,7 @@ void AssetEvaluator::on_sample(std::size_t input_index, double value, Quality qu
                                core::SensorTime t, std::string_view tag, ConditionSink& sink) {
   assert(input_index < inputs_.size());
   advance(t, sink);
+  accumulate_records(t);
   InputState& input = inputs_[input_index];
   input.heard = t;
   input.silent = false;
@@ -184,6 +239,8 @@ void AssetEvaluator::on_sample(std::size_t input_index, double value, Quality qu
     if (!signals_.fresh(check.trigger_slot) || held(check)) continue;
     if (auto outcome = check.node->evaluate(t)) publish(check, std::move(*outcome), t, tag, sink);
   }
+  hold_records();
+  report_estimator_records(sink);
   deadlines_changed_ = true;  // a sample may start or cancel delays and silences
 }
 
@@ -192,33 +249,44 @@ void AssetEvaluator::advance(core::SensorTime now, ConditionSink& sink) {
   // Nothing changed since the last scan and nothing falls due yet: the common case, per sample.
   if (!deadlines_changed_ && (!next_due_ || now < *next_due_)) return;
   for (;;) {
+    enum class Due : std::uint8_t { check, input, record };
     std::optional<core::SensorTime> earliest;
     std::size_t index = 0;
-    bool is_input = false;
-    auto consider = [&](core::SensorTime due, std::size_t i, bool input) {
+    Due what = Due::check;
+    auto consider = [&](core::SensorTime due, std::size_t i, Due kind) {
       if (due <= now && (!earliest || due < *earliest)) {
         earliest = due;
         index = i;
-        is_input = input;
+        what = kind;
       }
     };
     // Checks first: on a tie a delay runs out on data that were still fresh until that moment.
     for (std::size_t c = 0; c < checks_.size(); ++c) {
       if (held(checks_[c])) continue;
-      if (auto due = checks_[c].node->deadline()) consider(*due, c, false);
+      if (auto due = checks_[c].node->deadline()) consider(*due, c, Due::check);
     }
     for (std::size_t i = 0; i < inputs_.size(); ++i) {
       const InputState& input = inputs_[i];
       if (input.silence.count() > 0 && !input.silent)
-        consider(input.heard + input.silence, i, true);
+        consider(input.heard + input.silence, i, Due::input);
+    }
+    for (std::size_t r = 0; r < records_.size(); ++r) {
+      if (auto due = records_[r].record.deadline()) consider(*due, r, Due::record);
     }
     if (!earliest) {
       remember_next_due();
       return;
     }
-    if (is_input) {
+    accumulate_records(*earliest);
+    if (what == Due::input) {
       inputs_[index].silent = true;
       hold_dependents(index);
+      hold_records();
+      continue;
+    }
+    if (what == Due::record) {
+      PeriodicRecord& record = records_[index].record;
+      sink.on_record({site_name_, spec_.name, record.spec().name, record.close()});
       continue;
     }
     CheckStep& check = checks_[index];
@@ -239,6 +307,9 @@ void AssetEvaluator::remember_next_due() {
   }
   for (const auto& input : inputs_) {
     if (input.silence.count() > 0 && !input.silent) keep(input.heard + input.silence);
+  }
+  for (const auto& step : records_) {
+    if (auto due = step.record.deadline()) keep(*due);
   }
   deadlines_changed_ = false;
 }
@@ -345,6 +416,8 @@ void AssetEvaluator::save(StateWriter& out) const {
     out.put_string(check.last.detail);
     put_forecast(out, check.last.forecast);
   }
+  out.put_u64(records_.size());
+  for (const auto& step : records_) step.record.save(out);
 }
 
 bool AssetEvaluator::load(StateReader& in) {
@@ -371,6 +444,10 @@ bool AssetEvaluator::load(StateReader& in) {
     check.last.value = in.get_double();
     check.last.detail = in.get_string();
     check.last.forecast = get_forecast(in);
+  }
+  if (in.get_u64() != records_.size()) in.fail();
+  for (std::size_t r = 0; r < records_.size() && in.ok(); ++r) {
+    if (!records_[r].record.load(in)) in.fail();
   }
   return in.ok();
 }

@@ -25,6 +25,14 @@
 // ends. While suppressed it keeps tracking its condition without reporting it; when suppression
 // ends it reports its true condition if that differs from the last one reported.
 //
+// Records. Each periodic record of the spec accumulates the held values of its fields' signals
+// (periodic_record.h); a field counts as usable while its signal has a value and every input it
+// comes from is usable and not silent. A period closes at its end as a deadline like the others
+// (after checks and inputs falling silent on a tie), so a quiet input does not keep a day open.
+// Estimators' records of events (EstimatorNode::take_record) are reported after the sample's
+// condition changes. Every record goes to ConditionSink::on_record stamped with site, asset and
+// source (the estimator or record name); the common path, with no record, allocates nothing.
+//
 // Reports carry views into the AssetSpec and this evaluator (check names, units, tags), valid
 // while both live. The implicit check reports the input's last good value (0 before any).
 //
@@ -43,6 +51,8 @@
 #include "engine/asset_signals.h"
 #include "engine/check_node.h"
 #include "engine/condition.h"
+#include "engine/local_calendar.h"
+#include "engine/periodic_record.h"
 #include "engine/sample.h"
 #include "engine/site_model.h"
 #include "engine/state_codec.h"
@@ -53,7 +63,9 @@ class AssetEvaluator {
  public:
   static constexpr double kDefaultStaleFactor = 3.0;
 
-  AssetEvaluator(const AssetSpec& spec, std::string_view site_name);
+  // `calendar` gives the local days of daily records; nullptr: days of UTC. It outlives this.
+  AssetEvaluator(const AssetSpec& spec, std::string_view site_name,
+                 LocalCalendar* calendar = nullptr);
   AssetEvaluator(const AssetEvaluator&) = delete;
   AssetEvaluator& operator=(const AssetEvaluator&) = delete;
 
@@ -105,8 +117,18 @@ class AssetEvaluator {
     CheckOutcome last;  // the latest outcome, reported when suppression ends
   };
 
+  struct RecordStep {
+    PeriodicRecord record;
+    std::vector<std::size_t> slots;                // per field: the signal's slot
+    std::vector<std::vector<std::size_t>> inputs;  // per field: inputs the signal comes from
+  };
+
   void compile();
+  void compile_records();
   void start_clock(core::SensorTime t);
+  void accumulate_records(core::SensorTime t);
+  void hold_records();
+  void report_estimator_records(ConditionSink& sink);
   // Scans every check and input for the earliest deadline still to come.
   void remember_next_due();
   bool held(const CheckStep& check) const;
@@ -127,6 +149,9 @@ class AssetEvaluator {
   std::vector<InputState> inputs_;
   std::vector<CheckStep> checks_;
   std::vector<std::vector<std::size_t>> check_plans_;  // per input: checks it can trigger
+  UtcCalendar utc_calendar_;
+  LocalCalendar& calendar_;
+  std::vector<RecordStep> records_;
   // The earliest moment time-driven work falls due, valid while !deadlines_changed_: lets
   // advance() return at once on the many calls (one per sample of the site) with nothing due.
   std::optional<core::SensorTime> next_due_;

@@ -42,6 +42,7 @@ class Analyser {
       visit({GraphNode::Kind::estimator, i});
     }
     check_checks();
+    check_records();
     return std::move(graph_);
   }
 
@@ -250,6 +251,45 @@ class Analyser {
           },
           check.kind);
       if (check.suppressed_when) resolve_signal(check.suppressed_when->of, check.where);
+    }
+  }
+
+  // A record's name is its source on the wire, so it may not also name an estimator; its
+  // fields name signals, and each statistic gets what it needs.
+  void check_records() {
+    std::set<std::string> names;
+    for (const auto& record : asset_.records) {
+      const std::string label = "record '" + record.name + "'";
+      if (!names.insert(record.name).second) {
+        problem("record name '" + record.name + "' is used twice in asset '" + asset_.name + "'",
+                record.where);
+      }
+      auto it = names_.find(record.name);
+      if (it != names_.end() && it->second.kind == GraphNode::Kind::estimator) {
+        problem(label + " has the name of an estimator; records and estimators are told apart by "
+                        "name, choose another",
+                record.where);
+      }
+      if (record.fields.empty()) problem(label + " has no fields", record.where);
+      if (record.day_start_s < 0 || record.day_start_s >= 86400) {
+        problem(label + ": day_start must be at least 0 and below 24h", record.where);
+      }
+      std::set<std::string> fields;
+      for (const auto& field : record.fields) {
+        const std::string what = label + " field '" + field.name + "'";
+        if (field.name == kCoveredHoursField) {
+          problem(what + ": the name is taken by the hours the record covers; choose another",
+                  field.where);
+        }
+        if (!fields.insert(field.name).second) problem(what + " is listed twice", field.where);
+        resolve_signal(field.of, field.where);
+        if (field.stat == RecordStat::total && !(field.rate_per_s && *field.rate_per_s > 0)) {
+          problem(what + ": a total needs rate_per, the time unit of the rate", field.where);
+        }
+        if (field.stat == RecordStat::time_above && !field.above) {
+          problem(what + ": time_above needs 'above', the threshold", field.where);
+        }
+      }
     }
   }
 

@@ -8,7 +8,8 @@
 // signal with the wrong number of operands, a data-quality check on something that is not an
 // input or on an input lacking what it needs (an expected interval for stale, a range for
 // out-of-range, mA for NE 43), and limit settings that cannot be worked out (a percent-of-span
-// deadband on a signal with no range). The configuration loader turns problems into
+// deadband on a signal with no range), and periodic records that name no signal, reuse an
+// estimator's name, or lack what a statistic needs. The configuration loader turns problems into
 // diagnostics; the engine only accepts an asset whose analysis has none.
 #pragma once
 

@@ -217,7 +217,11 @@ void AssetSignals::update_estimator(EstimatorStep& step, core::SensorTime t) {
   }
   const std::span<const double> in(input_buffer_.data(), step.input_slots.size());
   const std::span<double> out(&values_[step.first_output_slot], step.output_count);
-  if (!step.node->update(in, t, out)) return;
+  const bool written = step.node->update(in, t, out);
+  if (auto record = step.node->take_record()) {
+    records_.push_back({step.spec_index, std::move(*record)});
+  }
+  if (!written) return;
   for (std::size_t o = 0; o < step.output_count; ++o) {
     has_value_[step.first_output_slot + o] = 1;
     fresh_pass_[step.first_output_slot + o] = pass_;

@@ -10,6 +10,10 @@
 // (division by zero, say) is not written and does not propagate. Slots hold no value before
 // their first computation (has_value()).
 //
+// Records: after each estimator update the evaluator's estimator may hand over a record of an
+// event it recognised (EstimatorNode::take_record); they wait in records() until the owner
+// clears them. Nothing is allocated while no estimator has a record.
+//
 // Invariants: the AssetSpec outlives this object and passed analyse_asset() with no problems;
 // slots and nodes are sized once at construction and never move, so pointers to slot values
 // stay valid, and evaluation allocates nothing except when an event restarts an estimator. Not thread-safe: owned by the engine's thread.
@@ -59,6 +63,14 @@ class AssetSignals {
   // For each slot, whether a value of input `input` can change it.
   std::vector<std::uint8_t> reached_from(std::size_t input) const;
 
+  struct EstimatorRecord {
+    std::size_t estimator;  // index into the spec's estimators
+    RecordContent content;
+  };
+  // Records handed over since clear_records(), in the order the estimators produced them.
+  std::vector<EstimatorRecord>& records() { return records_; }
+  void clear_records() { records_.clear(); }
+
   // Slot values and estimator states (not freshness, which lasts one pass).
   void save(StateWriter& out) const;
   bool load(StateReader& in);
@@ -102,6 +114,7 @@ class AssetSignals {
   std::vector<EstimatorStep> estimators_;
   std::vector<std::vector<PlanEntry>> plans_;  // per input
   std::vector<double> input_buffer_;           // estimator inputs, sized to the widest
+  std::vector<EstimatorRecord> records_;
 };
 
 }  // namespace bw::engine

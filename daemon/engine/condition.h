@@ -11,6 +11,7 @@
 
 #include "core/sensor_time.h"
 #include "engine/alert.h"
+#include "engine/asset_record.h"
 #include "engine/site_model.h"
 
 namespace bw::engine {
@@ -34,11 +35,14 @@ struct ConditionChange {
   TransitionCause cause = TransitionCause::sample;  // silence: a stale tag, time passing
 };
 
-// Receives the changes of one asset in the order they occur. Called on the engine's thread.
+// Receives the changes of one asset in the order they occur, and the records it closes (from
+// an estimator that recognised an event, or a periodic record at its period's end), stamped with
+// site, asset and source. Called on the engine's thread.
 class ConditionSink {
  public:
   virtual ~ConditionSink() = default;
   virtual void on_change(std::string_view asset, const ConditionChange& change) = 0;
+  virtual void on_record(AssetRecord record) { (void)record; }
 };
 
 }  // namespace bw::engine

@@ -22,6 +22,10 @@ class CountingSink final : public AlertSink {
     if (transition.event == AlertEvent::command_refused) ++counters_.commands_refused;
     next_.on_transition(transition);
   }
+  void on_record(const AssetRecord& record) override {
+    ++counters_.records;
+    next_.on_record(record);
+  }
 
  private:
   AlertSink& next_;
@@ -30,27 +34,33 @@ class CountingSink final : public AlertSink {
 
 }  // namespace
 
-// Hands the condition changes of the assets to the alert book.
+// Hands the condition changes of the assets to the alert book, and keeps their records until
+// the step's transitions are out.
 class Engine::BookFeed final : public ConditionSink {
  public:
-  BookFeed(AlertBook& book, AlertSink& out) : book_(book), out_(out) {}
+  BookFeed(AlertBook& book, AlertSink& out, std::vector<AssetRecord>& records)
+      : book_(book), out_(out), records_(records) {}
   void on_change(std::string_view asset, const ConditionChange& change) override {
     book_.on_change(asset, change, out_);
   }
+  void on_record(AssetRecord record) override { records_.push_back(std::move(record)); }
 
  private:
   AlertBook& book_;
   AlertSink& out_;
+  std::vector<AssetRecord>& records_;
 };
 
-Engine::Engine(SiteSpec site, CommandPolicy policy)
-    : site_(std::make_unique<SiteSpec>(std::move(site))), book_(site_->name, std::move(policy)) {
+Engine::Engine(SiteSpec site, CommandPolicy policy, std::unique_ptr<LocalCalendar> calendar)
+    : site_(std::make_unique<SiteSpec>(std::move(site))),
+      calendar_(calendar ? std::move(calendar) : std::make_unique<UtcCalendar>()),
+      book_(site_->name, std::move(policy)) {
   for (auto check : kDaemonChecks) {
     book_.define(std::string(kDaemonAsset), std::string(check), Priority::high, false);
   }
   for (std::size_t a = 0; a < site_->assets.size(); ++a) {
     const AssetSpec& asset = site_->assets[a];
-    assets_.push_back(std::make_unique<AssetEvaluator>(asset, site_->name));
+    assets_.push_back(std::make_unique<AssetEvaluator>(asset, site_->name, calendar_.get()));
     fingerprints_.push_back(fingerprint(asset));
     for (const auto& check : assets_.back()->checks()) {
       book_.define(asset.name, std::string(check.name), check.priority, check.latching);
@@ -72,11 +82,18 @@ void Engine::note_unknown(std::string_view tag) {
   }
 }
 
+void Engine::hand_over_records(AlertSink& sink) {
+  if (records_.empty()) return;
+  for (const AssetRecord& record : records_) sink.on_record(record);
+  records_.clear();
+}
+
 void Engine::run_time_driven(core::SensorTime now, AlertSink& sink) {
-  BookFeed feed(book_, sink);
+  BookFeed feed(book_, sink, records_);
   for (std::size_t a = 0; a < assets_.size(); ++a) assets_[a]->advance(now, feed);
   book_.advance(now, sink);
   last_advance_ = now;
+  hand_over_records(sink);
 }
 
 void Engine::move_clock(core::SensorTime t, AlertSink& sink) {
@@ -107,10 +124,11 @@ void Engine::process(const Sample& sample, AlertSink& sink) {
   ++counters_.evaluated;
   CountingSink counting(sink, counters_);
   move_clock(sample.time, counting);
-  BookFeed feed(book_, counting);
+  BookFeed feed(book_, counting, records_);
   for (const Binding& b : it->second) {
     assets_[b.asset]->on_sample(b.input, sample.value, sample.quality, sample.time, it->first, feed);
   }
+  hand_over_records(counting);
 }
 
 CommandReply Engine::execute(const AlertCommand& command, AlertSink& sink) {
@@ -167,7 +185,8 @@ RestoreReport Engine::restore(const std::vector<EngineCheckpoint>& saved) {
         const bool fits = c.definition == fingerprints_[a] && assets_[a]->load(r) && r.finished();
         if (!fits) {
           // A half-applied load must not survive: start this asset afresh.
-          assets_[a] = std::make_unique<AssetEvaluator>(site_->assets[a], site_->name);
+          assets_[a] =
+              std::make_unique<AssetEvaluator>(site_->assets[a], site_->name, calendar_.get());
         }
         take(c, fits);
       }

@@ -13,6 +13,11 @@
 // on it and raises the input's data-quality alert ("<role>_quality") instead. A sample on a tag
 // bound to nothing is counted, and a non-finite value on a good sample is counted and dropped.
 //
+// Records (asset_record.h) closed while handling a sample, a command or a time step go to the
+// sink's on_record after every transition of that step, in the order the assets closed them.
+// Daily records follow the local days of `calendar` (the site's time zone; days of UTC when
+// none is given).
+//
 // Checkpoints: checkpoint() captures everything that evolves (each asset's estimators and
 // checks, every alert's lifecycle, the event clock) as opaque bytes with a definition
 // fingerprint per asset; restore() takes them back, keeping an asset's state only when its
@@ -37,6 +42,8 @@
 #include "engine/alert_book.h"
 #include "engine/alert_command.h"
 #include "engine/asset_evaluator.h"
+#include "engine/asset_record.h"
+#include "engine/local_calendar.h"
 #include "engine/sample.h"
 #include "engine/site_model.h"
 
@@ -51,6 +58,7 @@ struct EngineCounters {
   std::uint64_t transitions = 0;
   std::uint64_t commands = 0;
   std::uint64_t commands_refused = 0;
+  std::uint64_t records = 0;
   std::vector<std::string> first_unknown_tags;  // up to kMaxListedUnknownTags distinct names
 };
 
@@ -78,7 +86,8 @@ class Engine {
   // state_store_reset: the state database was damaged, moved aside, and started afresh.
   static constexpr std::array<std::string_view, 1> kDaemonChecks = {"state_store_reset"};
 
-  explicit Engine(SiteSpec site, CommandPolicy policy = {});
+  explicit Engine(SiteSpec site, CommandPolicy policy = {},
+                  std::unique_ptr<LocalCalendar> calendar = nullptr);
   Engine(const Engine&) = delete;
   Engine& operator=(const Engine&) = delete;
 
@@ -117,12 +126,15 @@ class Engine {
   void note_unknown(std::string_view tag);
   void move_clock(core::SensorTime t, AlertSink& sink);
   void run_time_driven(core::SensorTime now, AlertSink& sink);
+  void hand_over_records(AlertSink& sink);
 
   std::unique_ptr<SiteSpec> site_;  // heap-held so evaluators' references survive moves
+  std::unique_ptr<LocalCalendar> calendar_;
   std::vector<std::unique_ptr<AssetEvaluator>> assets_;
   std::vector<std::string> fingerprints_;  // per asset
   std::unordered_map<std::string, std::vector<Binding>, TagHash, std::equal_to<>> bindings_;
   AlertBook book_;
+  std::vector<AssetRecord> records_;  // closed in this step, waiting for its transitions
   std::optional<core::SensorTime> clock_;
   std::optional<core::SensorTime> last_advance_;
   EngineCounters counters_;

@@ -297,6 +297,44 @@ struct CheckSpec {
   Where where;
 };
 
+// Periodic records: facts kept for each reporting period besides alerts (one day's injected
+// volume and pressures for the well's injection report). A field summarises one signal over the
+// period, sample-and-hold between samples, counting only time in which the signal's data were
+// usable (every input it comes from good and not silent).
+enum class RecordPeriod : std::uint8_t {
+  daily,  // local days of the site's time zone, starting at day_start
+};
+
+enum class RecordStat : std::uint8_t {
+  total,         // integral of a rate over time: sum of value * dt / rate_per; unit given
+  max,           // largest usable value (the held value at the period's start counts)
+  min,           // smallest usable value
+  time_average,  // integral of value over time / usable time
+  time_above,    // hours in which the held value was above `above`
+};
+
+struct RecordFieldSpec {
+  std::string name;  // the wire name of the field, e.g. "injected_volume"
+  std::string of;    // a signal
+  RecordStat stat = RecordStat::max;
+  std::optional<double> rate_per_s;  // total: the rate's time unit in seconds (bbl/d: 86400)
+  std::string unit;                  // total: the unit of the total (others take the signal's)
+  std::optional<double> above;       // time_above: the threshold, in the signal's unit
+  Where where;
+};
+
+struct RecordSpec {
+  std::string name;  // the record's kind on the wire, e.g. "daily_injection"
+  RecordPeriod period = RecordPeriod::daily;
+  double day_start_s = 0;  // daily: start of the reporting day after local midnight, [0, 24h)
+  std::vector<RecordFieldSpec> fields;
+  Where where;
+};
+
+// Every periodic record ends with this field: hours of the period in which every field's
+// signal had usable data. No configured field may take the name.
+inline constexpr const char* kCoveredHoursField = "covered_h";
+
 struct AssetSpec {
   std::string name;
   std::string template_name;
@@ -305,6 +343,7 @@ struct AssetSpec {
   std::vector<SignalSpec> signals;
   std::vector<EstimatorSpec> estimators;
   std::vector<CheckSpec> checks;
+  std::vector<RecordSpec> records;
   Where where;
 };
 

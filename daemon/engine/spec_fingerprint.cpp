@@ -201,6 +201,21 @@ std::string fingerprint(const AssetSpec& asset) {
       w.put_double(c.suppressed_when->threshold);
     }
   }
+  w.put_u64(asset.records.size());
+  for (const auto& r : asset.records) {
+    w.put_string(r.name);
+    w.put_u8(static_cast<std::uint8_t>(r.period));
+    w.put_double(r.day_start_s);
+    w.put_u64(r.fields.size());
+    for (const auto& f : r.fields) {
+      w.put_string(f.name);
+      w.put_string(f.of);
+      w.put_u8(static_cast<std::uint8_t>(f.stat));
+      put_optional(w, f.rate_per_s);
+      w.put_string(f.unit);
+      put_optional(w, f.above);
+    }
+  }
   char text[17];
   std::snprintf(text, sizeof text, "%016llx", static_cast<unsigned long long>(fnv1a(w.bytes())));
   return text;

@@ -7,6 +7,7 @@
 
 #include "core/utc_text.h"
 #include "io/json_text.h"
+#include "io/stable_id.h"
 
 namespace bw::io {
 
@@ -72,24 +73,14 @@ std::string alert_to_json(const engine::AlertTransition& t) {
 }
 
 std::string alert_id(const engine::AlertTransition& t) {
-  std::uint64_t hash = 0xcbf29ce484222325ull;
-  auto mix = [&hash](std::string_view bytes) {
-    for (unsigned char c : bytes) {
-      hash ^= c;
-      hash *= 0x100000001b3ull;
-    }
-    hash ^= 0xff;  // a separator no text byte sequence can fake across field boundaries
-    hash *= 0x100000001b3ull;
-  };
-  mix(t.site);
-  mix(t.asset);
-  mix(t.check);
-  mix(engine::to_string(t.event));
-  mix(std::to_string(t.time.time_since_epoch().count()));
-  mix(t.message);
-  char text[17];
-  std::snprintf(text, sizeof text, "%016llx", static_cast<unsigned long long>(hash));
-  return text;
+  return StableId()
+      .mix(t.site)
+      .mix(t.asset)
+      .mix(t.check)
+      .mix(engine::to_string(t.event))
+      .mix(std::to_string(t.time.time_since_epoch().count()))
+      .mix(t.message)
+      .hex();
 }
 
 Result<std::unique_ptr<AlertLog>> AlertLog::open(const std::filesystem::path& path, Mode mode,
@@ -97,7 +88,7 @@ Result<std::unique_ptr<AlertLog>> AlertLog::open(const std::filesystem::path& pa
   if (path == "-") return std::unique_ptr<AlertLog>(new AlertLog(stdout, false, hold));
   std::FILE* file = std::fopen(path.c_str(), mode == Mode::append ? "a" : "w");
   if (file == nullptr) {
-    return Error{"cannot write alerts to " + path.string() + ": " + std::strerror(errno)};
+    return Error{"cannot write to " + path.string() + ": " + std::strerror(errno)};
   }
   return std::unique_ptr<AlertLog>(new AlertLog(file, true, hold));
 }

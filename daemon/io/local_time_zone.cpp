@@ -36,6 +36,11 @@ core::SensorTime LocalTimeZone::to_utc(core::Micros local, ConversionNote& note)
   return convert_and_remember(local, note);
 }
 
+core::Micros LocalTimeZone::to_local(core::SensorTime t) const {
+  const auto instant = date::sys_seconds(std::chrono::floor<seconds>(t.time_since_epoch()));
+  return t.time_since_epoch() + micros(zone_->get_info(instant).offset);
+}
+
 core::SensorTime LocalTimeZone::convert_and_remember(core::Micros local, ConversionNote& note) {
   const auto local_seconds = date::local_seconds(std::chrono::floor<seconds>(local));
   const date::local_info info = zone_->get_info(local_seconds);

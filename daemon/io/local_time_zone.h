@@ -49,6 +49,9 @@ class LocalTimeZone {
   // The same, for a local time already flattened by micros_since_epoch_as_utc.
   core::SensorTime to_utc(core::Micros local, ConversionNote& note);
 
+  // The local wall-clock time at instant `t`, flattened like micros_since_epoch_as_utc.
+  core::Micros to_local(core::SensorTime t) const;
+
  private:
   LocalTimeZone(const date::time_zone* zone, std::string name)
       : zone_(zone), name_(std::move(name)) {}
