@@ -8,15 +8,20 @@
 //
 // Rule template schema (rules/<name>.yaml; the `template` key equals the file stem):
 //   template, description              texts (both required)
-//   parameters: {<name>: {default, unit, description, min, max}}   default: number or duration
+//   parameters: {<name>: {kind, default, unit, description, min, max}}
+//               kind number (the default): default (required) a number or duration
+//               kind table: a strapping table (level ft -> volume bbl); no default (none), no
+//               min or max; a site gives it as [[level, volume], ...] or a CSV file path
 //   inputs:     {<role>: kInputKeys}
-//   signals:    {<name>: kSignalKeys}          op: linear, sum, difference, product, ratio
+//   signals:    {<name>: kSignalKeys}          op: linear, sum, difference, product, ratio,
+//                                                  tank_volume (diameter, strapping_table)
 //   estimators: {<name>: {kind, ...}}          kind: ewma, cusum, ewma_chart, rls, trend, rate,
 //                                                    hall
 //   checks:     {<name>: {kind, priority, message, latching, suppressed_when, ...}}
 //               kind: limit, statistical, time_to_limit, rate, stale, flatline, out_of_range, ne43
 //               suppressed_when: {of: <signal>, below: <number>} or {of: <signal>, above: <number>}
-// Any numeric value in a template may name a parameter instead.
+// Any numeric value in a template may name a parameter instead; `strapping_table` names a table
+// parameter or is written inline as [[level, volume], ...].
 // Site schema (see site_loader.h): site {name, time_zone}, rules [folders], assets {<name>:
 // {template, description, tags {role: tag}, parameters {name: value}}}, live {...} (live_spec.h).
 // A whole-number (int) member takes the number's value only when it has no fraction; every int
@@ -26,6 +31,7 @@
 #include <array>
 #include <cassert>
 #include <cmath>
+#include <cstdint>
 #include <optional>
 #include <span>
 #include <string>
@@ -37,7 +43,9 @@
 #include "config/field_reader.h"
 #include "config/live_spec.h"
 #include "config/quantity.h"
+#include "config/strapping_table_reader.h"
 #include "core/overloaded.h"
+#include "core/tank_geometry.h"
 #include "engine/site_model.h"
 
 namespace bw::config {
@@ -49,13 +57,17 @@ struct RangeMembers {
   std::optional<double> Spec::*high;
 };
 
+// What a template parameter holds: a number (or duration), or a strapping table.
+enum class ParameterKind : std::uint8_t { number, table };
+
 template <class Spec>
 using Member = std::variant<
     double Spec::*, int Spec::*, bool Spec::*, std::string Spec::*,
     std::vector<std::string> Spec::*, std::optional<double> Spec::*, engine::BaselineSpec Spec::*,
     engine::Priority Spec::*, engine::LimitDirection Spec::*, engine::SignalOp Spec::*,
     engine::Measurement Spec::*, engine::RateDirection Spec::*, engine::HallWindowBasis Spec::*,
-    std::optional<engine::SuppressionSpec> Spec::*, PayloadFormat Spec::*, RangeMembers<Spec>>;
+    std::optional<engine::SuppressionSpec> Spec::*, PayloadFormat Spec::*, RangeMembers<Spec>,
+    std::optional<core::StrappingTable> Spec::*, ParameterKind Spec::*>;
 
 template <class Spec>
 struct Key {
@@ -76,13 +88,17 @@ inline constexpr std::array<std::pair<std::string_view, engine::Priority>, 4> kP
 inline constexpr std::array<std::pair<std::string_view, engine::LimitDirection>, 2> kDirectionNames{
     {{"high", engine::LimitDirection::high}, {"low", engine::LimitDirection::low}}};
 // Operation names; engine::signal_op_name() gives the same names the other way round.
-inline constexpr std::array<std::pair<std::string_view, engine::SignalOp>, 5> kSignalOpNames{{
+inline constexpr std::array<std::pair<std::string_view, engine::SignalOp>, 6> kSignalOpNames{{
     {"linear", engine::SignalOp::linear},
     {"sum", engine::SignalOp::sum},
     {"difference", engine::SignalOp::difference},
     {"product", engine::SignalOp::product},
     {"ratio", engine::SignalOp::ratio},
+    {"tank_volume", engine::SignalOp::tank_volume},
 }};
+
+inline constexpr std::array<std::pair<std::string_view, ParameterKind>, 2> kParameterKindNames{
+    {{"number", ParameterKind::number}, {"table", ParameterKind::table}}};
 
 inline constexpr std::array<std::pair<std::string_view, engine::RateDirection>, 2>
     kRateDirectionNames{
@@ -111,9 +127,11 @@ inline constexpr Bounds kAtLeastOne{.min = 1.0};
 std::string_view priority_name(engine::Priority priority);
 std::string_view direction_name(engine::LimitDirection direction);
 
-// A parameter declared by a rule template.
+// A parameter declared by a rule template. A table parameter has no default value (no table
+// until a site gives one) and no bounds.
 struct ParameterDecl {
   std::string name;
+  ParameterKind kind = ParameterKind::number;
   double default_value = 0;  // engineering units; seconds when unit is "s"
   std::string unit;
   std::string description;
@@ -123,8 +141,10 @@ struct ParameterDecl {
 };
 
 // clang-format off
-inline constexpr std::array<Key<ParameterDecl>, 5> kParameterKeys{{
-    {"default", &ParameterDecl::default_value, kAnyValue, true, true},
+// `default` is required of number parameters and refused for tables (rule_template.cpp).
+inline constexpr std::array<Key<ParameterDecl>, 6> kParameterKeys{{
+    {"kind", &ParameterDecl::kind},
+    {"default", &ParameterDecl::default_value, kAnyValue, true},
     {"unit", &ParameterDecl::unit, kAnyValue, false, true},
     {"description", &ParameterDecl::description, kAnyValue, false, true},
     {"min", &ParameterDecl::min},
@@ -140,13 +160,16 @@ inline constexpr std::array<Key<engine::InputSpec>, 5> kInputKeys{{
     {"measurement", &engine::InputSpec::measurement},
 }};
 
-inline constexpr std::array<Key<engine::SignalSpec>, 6> kSignalKeys{{
+// diameter (ft) and strapping_table are keys of op tank_volume (engine::analyse_asset checks).
+inline constexpr std::array<Key<engine::SignalSpec>, 8> kSignalKeys{{
     {"op", &engine::SignalSpec::op, kAnyValue, false, true},
     {"of", &engine::SignalSpec::operands, kAnyValue, false, true},
     {"unit", &engine::SignalSpec::unit, kAnyValue, false, true},
     {"gain", &engine::SignalSpec::gain},
     {"offset", &engine::SignalSpec::offset},
     {"exponent", &engine::SignalSpec::exponent},
+    {"diameter", &engine::SignalSpec::diameter_ft, kPositive},
+    {"strapping_table", &engine::SignalSpec::strapping_table},
 }};
 
 inline constexpr std::array<Key<engine::BaselineSpec>, 3> kBaselineKeys{{
@@ -427,6 +450,12 @@ bool read_keys(FieldReader& reader, const ConfigNode& map, const std::array<Key<
             },
             [&](PayloadFormat Spec::*m) {
               store(m, reader.choice<PayloadFormat>(*value, what, kPayloadFormatNames));
+            },
+            [&](std::optional<core::StrappingTable> Spec::*m) {
+              read_table_reference(reader, *value, what, out.*m);
+            },
+            [&](ParameterKind Spec::*m) {
+              store(m, reader.choice<ParameterKind>(*value, what, kParameterKindNames));
             },
             [&](RangeMembers<Spec> r) {
               if (auto range = read_range(reader, *value, what)) {

@@ -28,6 +28,8 @@
 #include <variant>
 #include <vector>
 
+#include "core/tank_geometry.h"
+
 namespace bw::engine {
 
 // Where a definition came from, so that every message can point at a file and line.
@@ -71,8 +73,13 @@ enum class SignalOp : std::uint8_t {
   difference,  // a - b
   product,     // a * b * ...
   ratio,       // a / b^exponent (undefined when b <= 0 and exponent is not 1)
+  tank_volume, // bbl held at level a (ft): strapping table if given, else a vertical cylinder
 };
 
+// tank_volume (core/tank_geometry.h) uses the strapping table when there is one (extended along
+// its end segments outside it), otherwise an upright cylinder of inside diameter `diameter_ft`
+// with nothing below gauge zero. `diameter_ft` and `strapping_table` belong to tank_volume only;
+// the asset analysis refuses them on other operations and refuses a tank_volume with neither.
 struct SignalSpec {
   std::string name;
   std::string unit;
@@ -81,6 +88,8 @@ struct SignalSpec {
   double gain = 1.0;
   double offset = 0.0;
   double exponent = 1.0;
+  std::optional<double> diameter_ft;
+  std::optional<core::StrappingTable> strapping_table;
   Where where;
 };
 
