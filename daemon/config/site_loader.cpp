@@ -201,8 +201,9 @@ class SiteLoader {
     if (value.is_sequence()) return read_inline_table(reader_, value, label);
     auto name = value.is_scalar() ? reader_.text(value, label) : std::nullopt;
     if (!name) {
-      reader_.error(value, label + ": expected a list of [level, volume] pairs or the path of a "
-                                   "CSV file (level ft, volume bbl), got " +
+      reader_.error(value, label +
+                               ": expected a list of [level, volume] pairs or the path of a "
+                               "CSV file (level ft, volume bbl), got " +
                                FieldReader::describe(value));
       return std::nullopt;
     }

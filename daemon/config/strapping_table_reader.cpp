@@ -27,11 +27,11 @@ std::vector<Field> split_fields(std::string_view line) {
   std::size_t start = 0;
   while (true) {
     const std::size_t comma = line.find(',', start);
-    const std::string_view raw = line.substr(start, comma == std::string_view::npos
-                                                        ? std::string_view::npos
-                                                        : comma - start);
+    const std::string_view raw = line.substr(
+        start, comma == std::string_view::npos ? std::string_view::npos : comma - start);
     const std::string_view text = trim(raw);
-    const std::size_t offset = text.empty() ? 0 : static_cast<std::size_t>(text.data() - raw.data());
+    const std::size_t offset =
+        text.empty() ? 0 : static_cast<std::size_t>(text.data() - raw.data());
     fields.push_back({text, static_cast<int>(start + offset + 1)});
     if (comma == std::string_view::npos) return fields;
     start = comma + 1;
@@ -60,10 +60,10 @@ std::optional<core::StrappingTable> read_inline_table(FieldReader& reader, const
     const ConfigNode& pair = list.items[i];
     const std::string where = label + ": pair " + std::to_string(i + 1);
     if (!pair.is_sequence() || pair.items.size() != 2) {
-      reader.error(pair, where + ": expected [level, volume], got " + FieldReader::describe(pair) +
-                             (pair.is_sequence() ? " of " + std::to_string(pair.items.size()) +
-                                                       " values"
-                                                 : ""));
+      reader.error(
+          pair,
+          where + ": expected [level, volume], got " + FieldReader::describe(pair) +
+              (pair.is_sequence() ? " of " + std::to_string(pair.items.size()) + " values" : ""));
       ok = false;
       continue;
     }
@@ -111,7 +111,8 @@ std::optional<core::StrappingTable> read_table_csv_text(std::string_view label,
       if (is_two_numbers(fields)) {
         error(number, 1,
               "strapping table: expected a header line naming the two columns (" +
-                  std::string(kColumns) + "), e.g. 'level_ft,volume_bbl', got numbers; add a "
+                  std::string(kColumns) +
+                  "), e.g. 'level_ft,volume_bbl', got numbers; add a "
                   "header so that the first row is not taken for one");
       } else if (fields.size() != 2) {
         error(number, 1,
@@ -164,8 +165,10 @@ void read_table_reference(FieldReader& reader, const ConfigNode& value, std::str
   }
   const std::string label(what);
   if (!value.is_scalar()) {
-    reader.error(value, label + ": expected a table parameter name or a list of [level, volume] "
-                                "pairs, got " + FieldReader::describe(value));
+    reader.error(value, label +
+                            ": expected a table parameter name or a list of [level, volume] "
+                            "pairs, got " +
+                            FieldReader::describe(value));
     return;
   }
   auto table = reader.tables().find(value.text);

@@ -34,8 +34,7 @@ double VerticalCylinder::volume_bbl(double level_ft) const {
 std::optional<StrappingTable::Problem> StrappingTable::find_problem(
     const std::vector<Point>& points) {
   if (points.size() < 2) {
-    return Problem{points.size(),
-                   "needs at least 2 points, got " + std::to_string(points.size())};
+    return Problem{points.size(), "needs at least 2 points, got " + std::to_string(points.size())};
   }
   for (std::size_t i = 0; i < points.size(); ++i) {
     const Point& p = points[i];
@@ -45,13 +44,14 @@ std::optional<StrappingTable::Problem> StrappingTable::find_problem(
     if (i == 0) continue;
     const Point& before = points[i - 1];
     if (!(p.level_ft > before.level_ft)) {
-      return Problem{i, "level " + format_value(p.level_ft) + " ft is not above the previous level " +
-                            format_value(before.level_ft) + " ft (levels must strictly increase)"};
+      return Problem{i, "level " + format_value(p.level_ft) +
+                            " ft is not above the previous level " + format_value(before.level_ft) +
+                            " ft (levels must strictly increase)"};
     }
     if (p.volume_bbl < before.volume_bbl) {
       return Problem{i, "volume " + format_value(p.volume_bbl) +
-                            " bbl is below the previous volume " +
-                            format_value(before.volume_bbl) + " bbl (volumes must not decrease)"};
+                            " bbl is below the previous volume " + format_value(before.volume_bbl) +
+                            " bbl (volumes must not decrease)"};
     }
   }
   return std::nullopt;

@@ -68,12 +68,12 @@ struct InputSpec {
 
 // Derived signal operations. Operands are signal names; values are sample-and-hold.
 enum class SignalOp : std::uint8_t {
-  linear,      // gain * a + offset
-  sum,         // a + b + ...
-  difference,  // a - b
-  product,     // a * b * ...
-  ratio,       // a / b^exponent (undefined when b <= 0 and exponent is not 1)
-  tank_volume, // bbl held at level a (ft): strapping table if given, else a vertical cylinder
+  linear,       // gain * a + offset
+  sum,          // a + b + ...
+  difference,   // a - b
+  product,      // a * b * ...
+  ratio,        // a / b^exponent (undefined when b <= 0 and exponent is not 1)
+  tank_volume,  // bbl held at level a (ft): strapping table if given, else a vertical cylinder
 };
 
 // tank_volume (core/tank_geometry.h) uses the strapping table when there is one (extended along

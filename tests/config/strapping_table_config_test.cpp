@@ -35,14 +35,16 @@ class StrappingTableConfig : public ::testing::Test {
 
   // A site whose one asset (line 3) gives `parameters` on line 6, column 5.
   LoadResult load(const std::string& parameters, const std::string& rule = "strapped_vessel") {
-    return load_site_from_string(
+    // clang-format off
+    const std::string text =
         "site: {name: Dry Creek SWD 4, time_zone: America/Chicago}\n"  // line 1
         "assets:\n"                                                    // line 2
         "  tank_a:\n"                                                  // line 3
         "    template: " + rule + "\n"                                 // line 4
         "    tags: {level: DC4.TK1.LEVEL}\n"                           // line 5
-        "    " + parameters + "\n",                                    // line 6
-        path_of("site.yaml"), {kRules});
+        "    " + parameters + "\n";                                    // line 6
+    // clang-format on
+    return load_site_from_string(text, path_of("site.yaml"), {kRules});
   }
 
   static void expect_only(const LoadResult& result, const std::string& file, int line, int column,
@@ -150,9 +152,10 @@ TEST_F(StrappingTableConfig, AMissingCsvIsReportedAtTheSiteKey) {
   EXPECT_EQ(d.file, path_of("site.yaml"));
   EXPECT_EQ(d.line, 6);
   EXPECT_EQ(d.column, 35);
-  EXPECT_EQ(d.message, "asset 'tank_a': parameter 'strapping_table': cannot read the strapping "
-                       "table: cannot open '" + path_of("missing.csv") +
-                       "': No such file or directory");
+  EXPECT_EQ(d.message,
+            "asset 'tank_a': parameter 'strapping_table': cannot read the strapping "
+            "table: cannot open '" +
+                path_of("missing.csv") + "': No such file or directory");
 }
 
 TEST_F(StrappingTableConfig, AFallingVolumeInlineNamesThePair) {

@@ -63,8 +63,8 @@ TEST(TankVolumeSignal, CylinderGivesTheApi12FGrossVolumes) {
 // By hand (piecewise linear): between (1, 10) and (3, 50), 2 ft is 30 bbl; above the top the
 // last segment (20 bbl/ft) is extended: 4.5 ft is 50 + 1.5 x 20 = 80 bbl.
 TEST(TankVolumeSignal, TableIsInterpolatedAndExtendedAndTakesPrecedence) {
-  const AssetSpec asset = tank_with({.diameter_ft = 15.5,
-                                     .strapping_table = table({{0, 0}, {1, 10}, {3, 50}})});
+  const AssetSpec asset =
+      tank_with({.diameter_ft = 15.5, .strapping_table = table({{0, 0}, {1, 10}, {3, 50}})});
   EXPECT_DOUBLE_EQ(volume_at(asset, 2.0), 30.0);
   EXPECT_DOUBLE_EQ(volume_at(asset, 4.5), 80.0);
 }
@@ -113,14 +113,15 @@ TEST(TankVolumeSignal, FingerprintCoversDiameterAndTable) {
   const AssetSpec twelve = tank_with({.diameter_ft = 12.0});
   EXPECT_EQ(fingerprint(twelve), fingerprint(tank_with({.diameter_ft = 12.0})));
   EXPECT_NE(fingerprint(twelve), fingerprint(tank_with({.diameter_ft = 12.5})));
-  const AssetSpec tabled = tank_with({.diameter_ft = 12.0, .strapping_table = table({{0, 0}, {10, 200}})});
+  const AssetSpec tabled =
+      tank_with({.diameter_ft = 12.0, .strapping_table = table({{0, 0}, {10, 200}})});
   EXPECT_NE(fingerprint(twelve), fingerprint(tabled));
+  EXPECT_NE(
+      fingerprint(tabled),
+      fingerprint(tank_with({.diameter_ft = 12.0, .strapping_table = table({{0, 0}, {10, 201}})})));
   EXPECT_NE(fingerprint(tabled),
-            fingerprint(tank_with({.diameter_ft = 12.0,
-                                   .strapping_table = table({{0, 0}, {10, 201}})})));
-  EXPECT_NE(fingerprint(tabled),
-            fingerprint(tank_with({.diameter_ft = 12.0,
-                                   .strapping_table = table({{0, 0}, {5, 100}, {10, 200}})})));
+            fingerprint(tank_with(
+                {.diameter_ft = 12.0, .strapping_table = table({{0, 0}, {5, 100}, {10, 200}})})));
 }
 
 }  // namespace
