@@ -31,11 +31,13 @@ bool is_identifier(std::string_view name) {
 }
 
 FieldReader::FieldReader(const SourceText& source, std::vector<Diagnostic>& diagnostics,
-                         ParameterValues parameters, std::string parameter_scope)
+                         ParameterValues parameters, std::string parameter_scope,
+                         TableValues tables)
     : source_(source),
       diagnostics_(diagnostics),
       parameters_(std::move(parameters)),
-      parameter_scope_(std::move(parameter_scope)) {}
+      parameter_scope_(std::move(parameter_scope)),
+      tables_(std::move(tables)) {}
 
 void FieldReader::error(int line, int column, std::string message) {
   diagnostics_.push_back(source_.at(line, column, std::move(message)));

@@ -8,7 +8,8 @@
 // Numeric fields may name a parameter instead of giving a number: the reader looks the name up
 // in the parameter values it was given (engineering units; seconds for durations) and checks the
 // bounds against the resolved value. A name that is no parameter is reported with the nearest
-// parameter name, if one is close.
+// parameter name, if one is close. Table parameters (strapping tables) are held apart, by name;
+// config/strapping_table_reader.h resolves references to them.
 //
 // Not thread-safe (appends to the caller's diagnostic list).
 #pragma once
@@ -26,11 +27,14 @@
 #include "config/diagnostic.h"
 #include "config/nearest_name.h"
 #include "config/source_text.h"
+#include "core/tank_geometry.h"
 
 namespace bw::config {
 
 // Parameter values by name: engineering units, seconds for durations.
 using ParameterValues = std::map<std::string, double, std::less<>>;
+// Table parameter values by name; an empty optional is a table parameter given no table.
+using TableValues = std::map<std::string, std::optional<core::StrappingTable>, std::less<>>;
 
 // Allowed interval for a number; an unset end is unbounded.
 struct Bounds {
@@ -55,9 +59,12 @@ class FieldReader {
  public:
   // `parameter_scope` names where parameters come from, for messages ("template 'tank_level'").
   FieldReader(const SourceText& source, std::vector<Diagnostic>& diagnostics,
-              ParameterValues parameters = {}, std::string parameter_scope = {});
+              ParameterValues parameters = {}, std::string parameter_scope = {},
+              TableValues tables = {});
 
   const SourceText& source() const { return source_; }
+  const std::string& parameter_scope() const { return parameter_scope_; }
+  const TableValues& tables() const { return tables_; }
   std::size_t error_count() const { return diagnostics_.size(); }
 
   void error(int line, int column, std::string message);
@@ -113,6 +120,7 @@ class FieldReader {
   std::vector<Diagnostic>& diagnostics_;
   ParameterValues parameters_;
   std::string parameter_scope_;
+  TableValues tables_;
 };
 
 }  // namespace bw::config

@@ -212,10 +212,24 @@ void read_parameter(FieldReader& reader, const MapEntry& entry, const std::strin
   decl.where = where_of(reader.source(), entry);
   reader.check_keys(entry.value, allowed_keys(kParameterKeys), what);
   if (!read_keys(reader, entry.value, kParameterKeys, decl, what)) return;
-  const ConfigNode& value = *entry.value.find("default");
-  if (has_duration_unit(value.text) && decl.unit != "s") {
-    reader.error(value, what + ": key 'default': a duration such as '" + value.text +
-                            "' needs unit 's', but the unit is '" + decl.unit + "'");
+  if (decl.kind == ParameterKind::table) {
+    // A table has no sensible default for every tank, and no bounds.
+    for (std::string_view key : {"default", "min", "max"}) {
+      if (const ConfigNode* value = entry.value.find(key)) {
+        reader.error(*value, what + ": key '" + std::string(key) +
+                                 "': a table parameter takes none (it holds no table until a "
+                                 "site gives one)");
+        return;
+      }
+    }
+    rule.parameters.push_back(std::move(decl));
+    return;
+  }
+  const ConfigNode* value = reader.require(entry.value, "default", what);
+  if (value == nullptr) return;
+  if (has_duration_unit(value->text) && decl.unit != "s") {
+    reader.error(*value, what + ": key 'default': a duration such as '" + value->text +
+                             "' needs unit 's', but the unit is '" + decl.unit + "'");
     return;
   }
   const Bounds bounds{.min = decl.min, .max = decl.max};
@@ -224,8 +238,8 @@ void read_parameter(FieldReader& reader, const MapEntry& entry, const std::strin
     return;
   }
   if (!bounds.contains(decl.default_value)) {
-    reader.error(value, what + ": key 'default': must be " + bounds.describe() + ", got " +
-                            format_number(decl.default_value));
+    reader.error(*value, what + ": key 'default': must be " + bounds.describe() + ", got " +
+                             format_number(decl.default_value));
     return;
   }
   rule.parameters.push_back(std::move(decl));
@@ -294,14 +308,24 @@ std::optional<RuleTemplate> read_template(const ConfigNode& document, const Sour
 
 ParameterValues default_values(const RuleTemplate& rule) {
   ParameterValues values;
-  for (const auto& p : rule.parameters) values.emplace(p.name, p.default_value);
+  for (const auto& p : rule.parameters) {
+    if (p.kind == ParameterKind::number) values.emplace(p.name, p.default_value);
+  }
   return values;
 }
 
+TableValues default_tables(const RuleTemplate& rule) {
+  TableValues tables;
+  for (const auto& p : rule.parameters) {
+    if (p.kind == ParameterKind::table) tables.emplace(p.name, std::nullopt);
+  }
+  return tables;
+}
+
 void instantiate_template(const RuleTemplate& rule, const SourceText& source,
-                          const ParameterValues& values, engine::AssetSpec& asset,
-                          std::vector<Diagnostic>& diagnostics) {
-  FieldReader reader(source, diagnostics, values, "template '" + rule.name + "'");
+                          const ParameterValues& values, const TableValues& tables,
+                          engine::AssetSpec& asset, std::vector<Diagnostic>& diagnostics) {
+  FieldReader reader(source, diagnostics, values, "template '" + rule.name + "'", tables);
   const ConfigNode& doc = rule.document;
 
   for_each_named(reader, doc.find("inputs"), "inputs", "input",

@@ -1,7 +1,8 @@
 // Rule templates: one asset class per YAML file, instantiated once per asset of a site.
 //
 // read_template() checks a template's top level and its parameter declarations (identifier
-// names; a default that is a number, or a duration when the unit is "s"; min <= default <= max).
+// names; a number parameter's default is a number, or a duration when the unit is "s", and
+// min <= default <= max; a table parameter has no default, min or max).
 // instantiate_template() builds an asset's inputs, derived signals, estimators, checks and
 // periodic records from
 // the template with one set of parameter values, checking every key against the schema
@@ -38,12 +39,16 @@ std::optional<RuleTemplate> read_template(const ConfigNode& document, const Sour
                                           std::string_view expected_name,
                                           std::vector<Diagnostic>& diagnostics);
 
-// The declared defaults by parameter name.
+// The declared defaults of the number parameters by name.
 ParameterValues default_values(const RuleTemplate& rule);
 
-// Appends the template's definitions to `asset` (whose name is used in messages).
+// Every table parameter by name, holding no table (their default).
+TableValues default_tables(const RuleTemplate& rule);
+
+// Appends the template's definitions to `asset` (whose name is used in messages), with the
+// number parameters `values` and the table parameters `tables`.
 void instantiate_template(const RuleTemplate& rule, const SourceText& source,
-                          const ParameterValues& values, engine::AssetSpec& asset,
-                          std::vector<Diagnostic>& diagnostics);
+                          const ParameterValues& values, const TableValues& tables,
+                          engine::AssetSpec& asset, std::vector<Diagnostic>& diagnostics);
 
 }  // namespace bw::config

@@ -8,9 +8,13 @@
 //
 // Rule template schema (rules/<name>.yaml; the `template` key equals the file stem):
 //   template, description              texts (both required)
-//   parameters: {<name>: {default, unit, description, min, max}}   default: number or duration
+//   parameters: {<name>: {kind, default, unit, description, min, max}}
+//               kind number (the default): default (required) a number or duration
+//               kind table: a strapping table (level ft -> volume bbl); no default (none), no
+//               min or max; a site gives it as [[level, volume], ...] or a CSV file path
 //   inputs:     {<role>: kInputKeys}
-//   signals:    {<name>: kSignalKeys}          op: linear, sum, difference, product, ratio, gate
+//   signals:    {<name>: kSignalKeys}          op: linear, sum, difference, product, ratio, gate,
+//                                                  tank_volume (diameter, strapping_table)
 //   estimators: {<name>: {kind, restart_on, ...}}  kind: ewma, cusum, ewma_chart, rls, trend,
 //                                                    rate, hall, filter_life, episode
 //   checks:     {<name>: {kind, priority, message, latching, suppressed_when, ...}}
@@ -19,7 +23,8 @@
 //   records:    {<name>: {kind: daily, day_start, fields: {<field>: kRecordFieldKeys}}}
 //               stat: total (needs rate_per and unit), max, min, time_average, time_above (needs
 //               above)
-// Any numeric value in a template may name a parameter instead.
+// Any numeric value in a template may name a parameter instead; `strapping_table` names a table
+// parameter or is written inline as [[level, volume], ...].
 // Site schema (see site_loader.h): site {name, time_zone}, rules [folders], assets {<name>:
 // {template, description, tags {role: tag}, parameters {name: value}}}, live {...} (live_spec.h).
 // A whole-number (int) member takes the number's value only when it has no fraction; every int
@@ -29,6 +34,7 @@
 #include <array>
 #include <cassert>
 #include <cmath>
+#include <cstdint>
 #include <optional>
 #include <span>
 #include <string>
@@ -40,7 +46,9 @@
 #include "config/field_reader.h"
 #include "config/live_spec.h"
 #include "config/quantity.h"
+#include "config/strapping_table_reader.h"
 #include "core/overloaded.h"
+#include "core/tank_geometry.h"
 #include "engine/site_model.h"
 
 namespace bw::config {
@@ -52,6 +60,9 @@ struct RangeMembers {
   std::optional<double> Spec::*high;
 };
 
+// What a template parameter holds: a number (or duration), or a strapping table.
+enum class ParameterKind : std::uint8_t { number, table };
+
 template <class Spec>
 using Member = std::variant<
     double Spec::*, int Spec::*, bool Spec::*, std::string Spec::*,
@@ -59,7 +70,8 @@ using Member = std::variant<
     engine::Priority Spec::*, engine::LimitDirection Spec::*, engine::SignalOp Spec::*,
     engine::Measurement Spec::*, engine::RateDirection Spec::*, engine::HallWindowBasis Spec::*,
     engine::RecordPeriod Spec::*, engine::RecordStat Spec::*,
-    std::optional<engine::SuppressionSpec> Spec::*, PayloadFormat Spec::*, RangeMembers<Spec>>;
+    std::optional<engine::SuppressionSpec> Spec::*, PayloadFormat Spec::*, RangeMembers<Spec>,
+    std::optional<core::StrappingTable> Spec::*, ParameterKind Spec::*>;
 
 template <class Spec>
 struct Key {
@@ -80,14 +92,18 @@ inline constexpr std::array<std::pair<std::string_view, engine::Priority>, 4> kP
 inline constexpr std::array<std::pair<std::string_view, engine::LimitDirection>, 2> kDirectionNames{
     {{"high", engine::LimitDirection::high}, {"low", engine::LimitDirection::low}}};
 // Operation names; engine::signal_op_name() gives the same names the other way round.
-inline constexpr std::array<std::pair<std::string_view, engine::SignalOp>, 6> kSignalOpNames{{
+inline constexpr std::array<std::pair<std::string_view, engine::SignalOp>, 7> kSignalOpNames{{
     {"linear", engine::SignalOp::linear},
     {"sum", engine::SignalOp::sum},
     {"difference", engine::SignalOp::difference},
     {"product", engine::SignalOp::product},
     {"ratio", engine::SignalOp::ratio},
     {"gate", engine::SignalOp::gate},
+    {"tank_volume", engine::SignalOp::tank_volume},
 }};
+
+inline constexpr std::array<std::pair<std::string_view, ParameterKind>, 2> kParameterKindNames{
+    {{"number", ParameterKind::number}, {"table", ParameterKind::table}}};
 
 inline constexpr std::array<std::pair<std::string_view, engine::RateDirection>, 2>
     kRateDirectionNames{
@@ -126,9 +142,11 @@ inline constexpr Bounds kAtLeastOne{.min = 1.0};
 std::string_view priority_name(engine::Priority priority);
 std::string_view direction_name(engine::LimitDirection direction);
 
-// A parameter declared by a rule template.
+// A parameter declared by a rule template. A table parameter has no default value (no table
+// until a site gives one) and no bounds.
 struct ParameterDecl {
   std::string name;
+  ParameterKind kind = ParameterKind::number;
   double default_value = 0;  // engineering units; seconds when unit is "s"
   std::string unit;
   std::string description;
@@ -138,8 +156,10 @@ struct ParameterDecl {
 };
 
 // clang-format off
-inline constexpr std::array<Key<ParameterDecl>, 5> kParameterKeys{{
-    {"default", &ParameterDecl::default_value, kAnyValue, true, true},
+// `default` is required of number parameters and refused for tables (rule_template.cpp).
+inline constexpr std::array<Key<ParameterDecl>, 6> kParameterKeys{{
+    {"kind", &ParameterDecl::kind},
+    {"default", &ParameterDecl::default_value, kAnyValue, true},
     {"unit", &ParameterDecl::unit, kAnyValue, false, true},
     {"description", &ParameterDecl::description, kAnyValue, false, true},
     {"min", &ParameterDecl::min},
@@ -155,7 +175,8 @@ inline constexpr std::array<Key<engine::InputSpec>, 5> kInputKeys{{
     {"measurement", &engine::InputSpec::measurement},
 }};
 
-inline constexpr std::array<Key<engine::SignalSpec>, 8> kSignalKeys{{
+// diameter (ft) and strapping_table are keys of op tank_volume (engine::analyse_asset checks).
+inline constexpr std::array<Key<engine::SignalSpec>, 10> kSignalKeys{{
     {"op", &engine::SignalSpec::op, kAnyValue, false, true},
     {"of", &engine::SignalSpec::operands, kAnyValue, false, true},
     {"unit", &engine::SignalSpec::unit, kAnyValue, false, true},
@@ -164,6 +185,8 @@ inline constexpr std::array<Key<engine::SignalSpec>, 8> kSignalKeys{{
     {"exponent", &engine::SignalSpec::exponent},
     {"reference", &engine::SignalSpec::reference, kPositive},
     {"above", &engine::SignalSpec::above},
+    {"diameter", &engine::SignalSpec::diameter_ft, kPositive},
+    {"strapping_table", &engine::SignalSpec::strapping_table},
 }};
 
 inline constexpr std::array<Key<engine::BaselineSpec>, 3> kBaselineKeys{{
@@ -494,6 +517,12 @@ bool read_keys(FieldReader& reader, const ConfigNode& map, const std::array<Key<
             },
             [&](PayloadFormat Spec::*m) {
               store(m, reader.choice<PayloadFormat>(*value, what, kPayloadFormatNames));
+            },
+            [&](std::optional<core::StrappingTable> Spec::*m) {
+              read_table_reference(reader, *value, what, out.*m);
+            },
+            [&](ParameterKind Spec::*m) {
+              store(m, reader.choice<ParameterKind>(*value, what, kParameterKindNames));
             },
             [&](RangeMembers<Spec> r) {
               if (auto range = read_range(reader, *value, what)) {

@@ -74,6 +74,14 @@ std::string describe_signal(const engine::SignalSpec& s) {
   if (s.op == engine::SignalOp::ratio && s.reference != 1.0) {
     out += ", referred to " + format_number(s.reference);
   }
+  if (s.op == engine::SignalOp::tank_volume && s.strapping_table) {
+    const auto& points = s.strapping_table->points();
+    out += ", strapping table of " + std::to_string(points.size()) + " points, " +
+           format_number(points.front().level_ft) + " to " + format_number(points.back().level_ft) +
+           " ft (straight-line beyond)";
+  } else if (s.op == engine::SignalOp::tank_volume && s.diameter_ft) {
+    out += ", vertical cylinder " + format_number(*s.diameter_ft) + " ft inside diameter";
+  }
   return out;
 }
 

@@ -12,6 +12,7 @@
 #include "config/live_section.h"
 #include "config/schema.h"
 #include "config/source_text.h"
+#include "config/strapping_table_reader.h"
 #include "config/template_library.h"
 #include "config/yaml_document.h"
 #include "engine/asset_graph.h"
@@ -144,8 +145,10 @@ class SiteLoader {
     }
     if (!entry->rule) return false;  // reported when the template was read
     const RuleTemplate& rule = *entry->rule;
-    const ParameterValues values = parameter_values(map.find("parameters"), what, rule);
-    instantiate_template(rule, entry->source, values, asset, diagnostics_);
+    ParameterValues values = default_values(rule);
+    TableValues tables = default_tables(rule);
+    read_parameters(map.find("parameters"), what, rule, values, tables);
+    instantiate_template(rule, entry->source, values, tables, asset, diagnostics_);
     bind_tags(map.find("tags"), what, rule, asset);
     return true;
   }
@@ -164,12 +167,12 @@ class SiteLoader {
                           did_you_mean(name, candidates));
   }
 
-  ParameterValues parameter_values(const ConfigNode* overrides, const std::string& what,
-                                   const RuleTemplate& rule) {
-    ParameterValues values = default_values(rule);
-    if (overrides == nullptr) return values;
+  // Overrides of the template's defaults in `values` and `tables`.
+  void read_parameters(const ConfigNode* overrides, const std::string& what,
+                       const RuleTemplate& rule, ParameterValues& values, TableValues& tables) {
+    if (overrides == nullptr) return;
     const std::string section = what + ": key 'parameters'";
-    if (!reader_.expect_map(*overrides, section)) return values;
+    if (!reader_.expect_map(*overrides, section)) return;
     std::vector<std::string_view> names;
     for (const auto& p : rule.parameters) names.push_back(p.name);
     for (const MapEntry* entry : reader_.unique_entries(*overrides, section)) {
@@ -180,13 +183,37 @@ class SiteLoader {
                                   entry->key + "'" + did_you_mean(entry->key, names));
         continue;
       }
-      const Bounds bounds{.min = decl->min, .max = decl->max};
       const std::string label = what + ": parameter '" + entry->key + "'";
+      if (decl->kind == ParameterKind::table) {
+        if (auto table = read_table(entry->value, label)) tables[entry->key] = std::move(*table);
+        continue;
+      }
+      const Bounds bounds{.min = decl->min, .max = decl->max};
       if (auto value = reader_.number(entry->value, label, bounds, decl->unit == "s")) {
         values[entry->key] = *value;
       }
     }
-    return values;
+  }
+
+  // A table parameter's value: [[level, volume], ...] or a CSV file relative to the site file.
+  std::optional<core::StrappingTable> read_table(const ConfigNode& value,
+                                                 const std::string& label) {
+    if (value.is_sequence()) return read_inline_table(reader_, value, label);
+    auto name = value.is_scalar() ? reader_.text(value, label) : std::nullopt;
+    if (!name) {
+      reader_.error(value, label +
+                               ": expected a list of [level, volume] pairs or the path of a "
+                               "CSV file (level ft, volume bbl), got " +
+                               FieldReader::describe(value));
+      return std::nullopt;
+    }
+    const fs::path path = (base_folder_ / *name).lexically_normal();
+    auto text = read_text_file(path);
+    if (!text) {
+      reader_.error(value, label + ": cannot read the strapping table: " + text.error().message);
+      return std::nullopt;
+    }
+    return read_table_csv_text(path.string(), text.value(), diagnostics_);
   }
 
   void bind_tags(const ConfigNode* tags, const std::string& what, const RuleTemplate& rule,

@@ -14,7 +14,9 @@
 //       tags: {level: DC4.TK1.LEVEL}   role -> tag; roles must be inputs of the template; a tag
 //                              may feed several assets and several roles
 //       parameters: {high_level: 20.5} overrides of template parameters, within their min/max;
-//                              a duration is allowed when the parameter's unit is "s"
+//                              a duration is allowed when the parameter's unit is "s"; a table
+//                              parameter takes [[level, volume], ...] or the path of a CSV file
+//                              relative to the site file (config/strapping_table_reader.h)
 //   live:                      optional; the broker, topics and state of `brinewatch run`
 //                              (schema in live_spec.h, checks in live_section.h)
 //

@@ -23,6 +23,7 @@ class SourceText {
 
   // The 1-based line without its line ending; empty when out of range.
   std::string_view line(int number) const;
+  int line_count() const { return static_cast<int>(lines_.size()); }
 
   // A diagnostic at a 1-based position in this text, quoting the line.
   Diagnostic at(int line, int column, std::string message) const;

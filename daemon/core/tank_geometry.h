@@ -3,14 +3,17 @@
 // Units: levels and diameters in feet, volumes in US oil barrels (bbl: 42 US gallons of 231 in^3,
 // so exactly 9702 in^3). Level is the liquid height above the tank's gauge zero.
 //
-// NaN handling: a NaN level or diameter gives a NaN volume; nothing is clamped silently except by
-// StrappingTable, which says so in its answer.
+// NaN handling: a NaN level or diameter gives a NaN volume. Nothing is clamped: a level outside
+// a strapping table is extrapolated along the nearest end segment, and the answer says so.
 //
 // Invariants: a StrappingTable exists only with at least two points, finite values, strictly
 // increasing levels and non-decreasing volumes (checked once by StrappingTable::create).
 // Everything here is immutable after construction and safe to share between threads.
 #pragma once
 
+#include <cstddef>
+#include <optional>
+#include <string>
 #include <utility>
 #include <vector>
 
@@ -43,8 +46,8 @@ struct VerticalCylinder {
 // Where a level lies relative to a strapping table.
 enum class TablePosition {
   inside,       // first level <= level <= last level: interpolated
-  below_first,  // clamped to the first point's volume
-  above_last,   // clamped to the last point's volume
+  below_first,  // extrapolated along the first segment
+  above_last,   // extrapolated along the last segment
   not_a_number  // the level was NaN; the volume is NaN
 };
 
@@ -57,22 +60,40 @@ struct TableVolume {
 };
 
 // Level -> volume by piecewise-linear interpolation over the caller's (level, volume) points, as
-// gauged or computed for one tank. Outside the table the volume is clamped to the nearest end and
-// the answer says so; the table is never extrapolated.
+// gauged or computed for one tank. Outside the table the end segment is extended in a straight
+// line (below the first point along the first segment, above the last along the last) and the
+// answer says so. Extending rather than clamping keeps the volume moving with the level: a level
+// above the top of the table still raises a fill rate, and a reading below gauge zero gives less
+// than the first volume, as VerticalCylinder does, so the fault stays visible. Over a table whose
+// end segment is flat the extension is flat too.
 class StrappingTable {
  public:
   struct Point {
     double level_ft = 0;
     double volume_bbl = 0;
+
+    friend bool operator==(const Point&, const Point&) = default;
   };
 
-  // Fails, naming the first offending point (0-based), when there are fewer than two points, a
-  // value is not finite, levels do not strictly increase or volumes decrease.
+  // Why a list of points is not a table; `point` is the 0-based index of the first offending
+  // point (for "too few points", the number of points).
+  struct Problem {
+    std::size_t point = 0;
+    std::string reason;
+  };
+
+  // The first problem of `points`, or nothing when they make a table: at least two points, finite
+  // values, strictly increasing levels and non-decreasing volumes.
+  static std::optional<Problem> find_problem(const std::vector<Point>& points);
+
+  // Fails with the message of find_problem(), naming the point ("strapping table point 2: ...").
   static Result<StrappingTable> create(std::vector<Point> points);
 
   TableVolume volume_at(double level_ft) const;
 
   const std::vector<Point>& points() const { return points_; }
+
+  friend bool operator==(const StrappingTable&, const StrappingTable&) = default;
 
  private:
   explicit StrappingTable(std::vector<Point> points) : points_(std::move(points)) {}

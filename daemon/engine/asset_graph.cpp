@@ -35,6 +35,7 @@ class Analyser {
     index_names();
     check_inputs_bound();
     check_operand_counts();
+    check_tank_shapes();
     for (std::size_t i = 0; i < asset_.signals.size(); ++i) {
       visit({GraphNode::Kind::signal, i});
     }
@@ -87,12 +88,28 @@ class Analyser {
   void check_operand_counts() {
     for (const auto& signal : asset_.signals) {
       const std::size_t n = signal.operands.size();
-      const bool one = signal.op == SignalOp::linear;
+      const bool one = signal.op == SignalOp::linear || signal.op == SignalOp::tank_volume;
       const bool two = signal.op == SignalOp::ratio || signal.op == SignalOp::gate;
       if ((one && n != 1) || (two && n != 2) || (!one && !two && n < 2)) {
         problem("signal '" + signal.name + "' (" + std::string(signal_op_name(signal.op)) +
                     ") takes " + (one ? "exactly 1 operand" : two ? "exactly 2 operands" : "2 or more operands") +
                     ", not " + std::to_string(n),
+                signal.where);
+      }
+    }
+  }
+
+  // A tank volume needs a shape; the shape keys mean nothing to the other operations.
+  void check_tank_shapes() {
+    for (const auto& signal : asset_.signals) {
+      const bool has_shape = signal.diameter_ft.has_value() || signal.strapping_table.has_value();
+      if (signal.op == SignalOp::tank_volume && !has_shape) {
+        problem("signal '" + signal.name +
+                    "' (tank_volume) needs the tank's 'diameter' (ft) or a 'strapping_table'",
+                signal.where);
+      } else if (signal.op != SignalOp::tank_volume && has_shape) {
+        problem("signal '" + signal.name + "' (" + std::string(signal_op_name(signal.op)) +
+                    "): 'diameter' and 'strapping_table' belong to op tank_volume only",
                 signal.where);
       }
     }
@@ -349,6 +366,8 @@ std::string_view signal_op_name(SignalOp op) {
       return "ratio";
     case SignalOp::gate:
       return "gate";
+    case SignalOp::tank_volume:
+      return "tank_volume";
   }
   return "unknown";
 }

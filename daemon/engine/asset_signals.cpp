@@ -4,6 +4,8 @@
 #include <cassert>
 #include <cmath>
 
+#include "core/tank_geometry.h"
+
 namespace bw::engine {
 namespace {
 
@@ -51,6 +53,9 @@ double apply(const SignalSpec& spec, const std::vector<double>& values,
       if (spec.exponent != 1.0 && denominator <= 0) return NAN;
       return acc / std::pow(denominator / spec.reference, spec.exponent);
     }
+    case SignalOp::tank_volume:
+      if (spec.strapping_table) return spec.strapping_table->volume_at(acc).volume_bbl;
+      return core::VerticalCylinder{.inside_diameter_ft = *spec.diameter_ft}.volume_bbl(acc);
   }
   return NAN;
 }

@@ -28,6 +28,8 @@
 #include <variant>
 #include <vector>
 
+#include "core/tank_geometry.h"
+
 namespace bw::engine {
 
 // Where a definition came from, so that every message can point at a file and line.
@@ -66,15 +68,20 @@ struct InputSpec {
 
 // Derived signal operations. Operands are signal names; values are sample-and-hold.
 enum class SignalOp : std::uint8_t {
-  linear,      // gain * a + offset
-  sum,         // a + b + ...
-  difference,  // a - b
-  product,     // a * b * ...
-  ratio,       // a / (b / reference)^exponent (undefined when b <= 0 and exponent is not 1);
-               // with exponent 0, a passed through only while b > 0 (a gate)
-  gate,        // a while b > above; no value otherwise (a dP read only while flow runs)
+  linear,       // gain * a + offset
+  sum,          // a + b + ...
+  difference,   // a - b
+  product,      // a * b * ...
+  ratio,        // a / (b / reference)^exponent (undefined when b <= 0 and exponent is not 1);
+                // with exponent 0, a passed through only while b > 0 (a gate)
+  gate,         // a while b > above; no value otherwise (a dP read only while flow runs)
+  tank_volume,  // bbl held at level a (ft): strapping table if given, else a vertical cylinder
 };
 
+// tank_volume (core/tank_geometry.h) uses the strapping table when there is one (extended along
+// its end segments outside it), otherwise an upright cylinder of inside diameter `diameter_ft`
+// with nothing below gauge zero. `diameter_ft` and `strapping_table` belong to tank_volume only;
+// the asset analysis refuses them on other operations and refuses a tank_volume with neither.
 struct SignalSpec {
   std::string name;
   std::string unit;
@@ -85,6 +92,8 @@ struct SignalSpec {
   double exponent = 1.0;
   double reference = 1.0;  // ratio: the value of b that a is referred to (> 0)
   double above = 0.0;      // gate: b must be above this for a to pass
+  std::optional<double> diameter_ft;
+  std::optional<core::StrappingTable> strapping_table;
   Where where;
 };
 

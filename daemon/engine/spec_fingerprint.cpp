@@ -9,7 +9,7 @@ namespace bw::engine {
 namespace {
 
 // Bump when the encoding below changes meaning, so old checkpoints are not taken for new.
-constexpr std::uint8_t kEncodingVersion = 1;
+constexpr std::uint8_t kEncodingVersion = 2;
 
 void put_optional(StateWriter& w, const std::optional<double>& v) {
   w.put_bool(v.has_value());
@@ -183,6 +183,15 @@ std::string fingerprint(const AssetSpec& asset) {
     w.put_double(s.exponent);
     w.put_double(s.reference);
     w.put_double(s.above);
+    put_optional(w, s.diameter_ft);
+    w.put_bool(s.strapping_table.has_value());
+    if (s.strapping_table) {
+      w.put_u64(s.strapping_table->points().size());
+      for (const auto& p : s.strapping_table->points()) {
+        w.put_double(p.level_ft);
+        w.put_double(p.volume_bbl);
+      }
+    }
   }
   w.put_u64(asset.estimators.size());
   for (const auto& e : asset.estimators) {

@@ -60,7 +60,7 @@ TEST_F(ExampleSite, AppliesParameterOverridesWhereTheyAreUsed) {
   EXPECT_DOUBLE_EQ(check<LimitCheckSpec>(skim, "level_high").limit, 21.0);
   EXPECT_DOUBLE_EQ(check<LimitCheckSpec>(skim, "level_low").limit, 2.0);
   EXPECT_EQ(check<LimitCheckSpec>(skim, "level_low").direction, LimitDirection::low);
-  EXPECT_DOUBLE_EQ(skim.signals.at(0).gain, 33.607);
+  ASSERT_TRUE(skim.signals.at(0).strapping_table.has_value());  // the CSV beside the site
   EXPECT_DOUBLE_EQ(check<LimitCheckSpec>(skim, "fill_rate_high").limit, 500);
   EXPECT_EQ(check<LimitCheckSpec>(skim, "fill_rate_high").of, "fill_rate.per_hour");
 }
@@ -113,9 +113,43 @@ TEST_F(ExampleSite, RecordsWhereEachDefinitionWasWritten) {
   EXPECT_GT(high->where.line, 0);
 }
 
+// The example skim tank's strapping table (invented) describes a 15.5 ft inside diameter tank on a
+// 1.5 ft deep cone bottom with gauge zero at the apex. Every row must match the geometry, rounded
+// to 0.01 bbl as written: a cone of liquid holds pi r^2 h / 3 with r = R h / H, a cylinder
+// pi R^2 h (geometry facts), and 1 bbl = 9702 / 1728 ft^3 (REFERENCES.md "Tanks and volumes").
+TEST_F(ExampleSite, SkimTankStrappingTableFollowsTheConeBottomGeometry) {
+  const auto& volume = *find_named(asset(site(), "skim_tank").signals, "volume");
+  ASSERT_TRUE(volume.strapping_table.has_value());
+  const auto& points = volume.strapping_table->points();
+  ASSERT_GE(points.size(), 20u);
+  EXPECT_EQ(points.front().level_ft, 0.0);
+  EXPECT_EQ(points.back().level_ft, 24.0);
+  const double r = 15.5 / 2;
+  const double cone_depth = 1.5;
+  const double ft3_per_bbl = 9702.0 / 1728.0;
+  for (const auto& p : points) {
+    const double h = p.level_ft;
+    const double ft3 = h <= cone_depth
+                           ? std::numbers::pi * r * r * h * h * h / (3 * cone_depth * cone_depth)
+                           : std::numbers::pi * r * r * (cone_depth / 3 + (h - cone_depth));
+    EXPECT_NEAR(p.volume_bbl, ft3 / ft3_per_bbl, 0.005 + 1e-9) << "level " << h << " ft";
+  }
+}
+
+TEST_F(ExampleSite, GunBarrelTakesItsDiameter) {
+  const auto& gun_barrel = asset(site(), "gun_barrel");
+  for (const char* name : {"volume", "water_volume"}) {
+    const auto* signal = find_named(gun_barrel.signals, name);
+    ASSERT_NE(signal, nullptr) << name;
+    EXPECT_EQ(signal->op, engine::SignalOp::tank_volume);
+    EXPECT_EQ(signal->diameter_ft, 15.5);
+    EXPECT_FALSE(signal->strapping_table.has_value());
+  }
+}
+
 // Fact of the trade (REFERENCES.md, "Tanks and volumes"): a vertical cylinder holds
 // (pi D^2 / 4) / 5.614583 bbl per foot (1 bbl = 5.614583 ft^3); for D = 12 ft that is 20.143.
-TEST(TankLevelTemplate, DefaultBarrelsPerFootFitATwelveFootTank) {
+TEST(TankLevelTemplate, DefaultDiameterIsATwelveFootTank) {
   const auto result = load_site_from_string(
       "site: {name: Dry Creek SWD 4, time_zone: America/Chicago}\n"
       "assets:\n"
@@ -125,8 +159,12 @@ TEST(TankLevelTemplate, DefaultBarrelsPerFootFitATwelveFootTank) {
   const auto& tank = asset(*result.site, "water_tank_3");
   const auto* volume = find_named(tank.signals, "volume");
   ASSERT_NE(volume, nullptr);
-  const double per_foot = std::numbers::pi * 12.0 * 12.0 / 4.0 / 5.614583;
-  EXPECT_NEAR(volume->gain, per_foot, 0.0005);
+  EXPECT_EQ(volume->op, engine::SignalOp::tank_volume);
+  ASSERT_TRUE(volume->diameter_ft.has_value());
+  const double per_foot = std::numbers::pi * *volume->diameter_ft * *volume->diameter_ft / 4.0 /
+                          5.614583;
+  EXPECT_NEAR(per_foot, 20.143, 0.0005);
+  EXPECT_FALSE(volume->strapping_table.has_value());
   EXPECT_EQ(volume->operands, std::vector<std::string>{"level"});
   EXPECT_EQ(volume->unit, "bbl");
 }

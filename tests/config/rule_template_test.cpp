@@ -29,7 +29,8 @@ Compiled compile(const std::string& text, const std::string& name = "probe") {
   out.rule = read_template(std::get<ConfigNode>(parsed), source, name, out.diagnostics);
   if (out.rule) {
     out.asset.name = "asset_a";
-    instantiate_template(*out.rule, source, default_values(*out.rule), out.asset, out.diagnostics);
+    instantiate_template(*out.rule, source, default_values(*out.rule), default_tables(*out.rule),
+                         out.asset, out.diagnostics);
   }
   return out;
 }

@@ -59,12 +59,25 @@ TEST_F(ExampleSiteDescription, ShowsLimitsWithUnitsAndPriorities) {
 TEST_F(ExampleSiteDescription, ListsSignalsBeforeTheEstimatorsThatReadThem) {
   const auto tank = text_.find("asset water_tank_1");
   ASSERT_NE(tank, std::string::npos);
-  const auto volume = text_.find("signal volume [bbl] = linear(level), gain 20.143", tank);
+  const auto volume = text_.find("signal volume [bbl] = tank_volume(level), vertical cylinder 12 ft inside diameter", tank);
   const auto rate = text_.find("estimator fill_rate: rate of volume; time constant 15min", tank);
   ASSERT_NE(volume, std::string::npos) << text_;
   ASSERT_NE(rate, std::string::npos) << text_;
   EXPECT_LT(volume, rate);
   EXPECT_TRUE(mentions("estimator level_trend: trend of level; time constant 3h"));
+}
+
+TEST_F(ExampleSiteDescription, ShowsWhichShapeEachTankVolumeUses) {
+  const auto skim = text_.find("asset skim_tank");
+  ASSERT_NE(skim, std::string::npos);
+  EXPECT_NE(text_.find("signal volume [bbl] = tank_volume(level), strapping table of 30 points, "
+                       "0 to 24 ft (straight-line beyond)",
+                       skim),
+            std::string::npos)
+      << text_;
+  EXPECT_TRUE(mentions("signal water_volume [bbl] = tank_volume(interface_level), vertical "
+                       "cylinder 15.5 ft inside diameter"))
+      << text_;
 }
 
 TEST(SiteDescription, ShowsAnUnboundOptionalInput) {

@@ -119,17 +119,42 @@ TEST(StrappingTable, InterpolatesLinearlyWithinEachSegment) {
   EXPECT_DOUBLE_EQ(strapped->volume_at(3.5).volume_bbl, 60.0);
 }
 
-TEST(StrappingTable, ClampsOutsideTheTableAndSaysSo) {
-  const auto strapped = table({{0.5, 8}, {10, 200}});
+// Outside the table the end segments are extended in straight lines (the documented choice):
+// (0.5, 8)-(2.5, 48) rises 20 bbl/ft, so 0.2 ft gives 8 - 0.3 x 20 = 2; (2.5, 48)-(10, 198) rises
+// 20 bbl/ft too, so 10.5 ft gives 198 + 0.5 x 20 = 208.
+TEST(StrappingTable, ExtendsTheEndSegmentsOutsideTheTableAndSaysSo) {
+  const auto strapped = table({{0.5, 8}, {2.5, 48}, {10, 198}});
   ASSERT_TRUE(strapped.ok());
   const TableVolume below = strapped->volume_at(0.2);
-  EXPECT_EQ(below.volume_bbl, 8.0);
+  EXPECT_NEAR(below.volume_bbl, 2.0, 1e-12);
   EXPECT_EQ(below.position, TablePosition::below_first);
   EXPECT_TRUE(below.out_of_table());
-  const TableVolume above = strapped->volume_at(10.01);
-  EXPECT_EQ(above.volume_bbl, 200.0);
+  const TableVolume above = strapped->volume_at(10.5);
+  EXPECT_NEAR(above.volume_bbl, 208.0, 1e-12);
   EXPECT_EQ(above.position, TablePosition::above_last);
   EXPECT_TRUE(above.out_of_table());
+  const TableVolume top = strapped->volume_at(10.0);
+  EXPECT_EQ(top.volume_bbl, 198.0);
+  EXPECT_EQ(top.position, TablePosition::inside);
+}
+
+// A level above the top keeps moving the volume (so fill-rate alerts keep speaking), and a flat
+// end segment extends flat.
+TEST(StrappingTable, VolumeKeepsRisingAboveTheTopAndAFlatEndStaysFlat) {
+  const auto rising = table({{0, 0}, {20, 400}});
+  ASSERT_TRUE(rising.ok());
+  EXPECT_GT(rising->volume_at(21.0).volume_bbl, rising->volume_at(20.5).volume_bbl);
+  const auto flat_top = table({{0, 0}, {20, 400}, {21, 400}});
+  ASSERT_TRUE(flat_top.ok());
+  EXPECT_EQ(flat_top->volume_at(22.0).volume_bbl, 400.0);
+}
+
+TEST(StrappingTable, FindProblemNamesThePointAndTheReason) {
+  const auto problem = StrappingTable::find_problem({{0, 0}, {1, 10}, {0.5, 20}});
+  ASSERT_TRUE(problem.has_value());
+  EXPECT_EQ(problem->point, 2u);
+  EXPECT_NE(problem->reason.find("strictly increase"), std::string::npos);
+  EXPECT_FALSE(StrappingTable::find_problem({{0, 0}, {1, 10}}).has_value());
 }
 
 TEST(StrappingTable, NaNLevelGivesNaNAndIsReported) {

@@ -55,7 +55,7 @@ std::string site() {
          "  gun_barrel:\n"
          "    template: water_tank\n"
          "    tags: {level: DC9.GB.LEVEL, interface_level: DC9.GB.INTERFACE}\n"
-         "    parameters: {bbl_per_foot: 33.607}\n";
+         "    parameters: {diameter: 15.5}\n";
 }
 
 TEST(WaterTankTemplate, NormalCarryOverAndSkimmingStayQuietForTwoDays) {
