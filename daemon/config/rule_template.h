@@ -22,6 +22,7 @@
 #include "config/field_reader.h"
 #include "config/schema.h"
 #include "config/source_text.h"
+#include "engine/sensor_health.h"
 #include "engine/site_model.h"
 
 namespace bw::config {
@@ -40,9 +41,11 @@ std::optional<RuleTemplate> read_template(const ConfigNode& document, const Sour
 // The declared defaults by parameter name.
 ParameterValues default_values(const RuleTemplate& rule);
 
-// Appends the template's definitions to `asset` (whose name is used in messages).
+// Appends the template's definitions to `asset` (whose name is used in messages) and the
+// sensor-health tuning of its inputs' `health:` blocks (config/health_block.h) to `health`.
+// The default sensor-health checks themselves are added by the site loader once tags are bound.
 void instantiate_template(const RuleTemplate& rule, const SourceText& source,
                           const ParameterValues& values, engine::AssetSpec& asset,
-                          std::vector<Diagnostic>& diagnostics);
+                          engine::SensorHealthTuning& health, std::vector<Diagnostic>& diagnostics);
 
 }  // namespace bw::config

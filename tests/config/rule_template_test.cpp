@@ -14,6 +14,7 @@ namespace {
 struct Compiled {
   std::optional<RuleTemplate> rule;
   engine::AssetSpec asset;
+  engine::SensorHealthTuning health;
   std::vector<Diagnostic> diagnostics;
 };
 
@@ -29,7 +30,8 @@ Compiled compile(const std::string& text, const std::string& name = "probe") {
   out.rule = read_template(std::get<ConfigNode>(parsed), source, name, out.diagnostics);
   if (out.rule) {
     out.asset.name = "asset_a";
-    instantiate_template(*out.rule, source, default_values(*out.rule), out.asset, out.diagnostics);
+    instantiate_template(*out.rule, source, default_values(*out.rule), out.asset, out.health,
+                         out.diagnostics);
   }
   return out;
 }
