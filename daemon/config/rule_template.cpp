@@ -2,6 +2,7 @@
 
 #include <functional>
 
+#include "config/health_block.h"
 #include "config/quantity.h"
 
 namespace bw::config {
@@ -324,7 +325,8 @@ TableValues default_tables(const RuleTemplate& rule) {
 
 void instantiate_template(const RuleTemplate& rule, const SourceText& source,
                           const ParameterValues& values, const TableValues& tables,
-                          engine::AssetSpec& asset, std::vector<Diagnostic>& diagnostics) {
+                          engine::AssetSpec& asset, engine::SensorHealthTuning& health,
+                          std::vector<Diagnostic>& diagnostics) {
   FieldReader reader(source, diagnostics, values, "template '" + rule.name + "'", tables);
   const ConfigNode& doc = rule.document;
 
@@ -333,7 +335,10 @@ void instantiate_template(const RuleTemplate& rule, const SourceText& source,
                    engine::InputSpec input;
                    input.role = entry.key;
                    input.where = where_of(source, entry);
-                   reader.check_keys(entry.value, allowed_keys(kInputKeys), what);
+                   reader.check_keys(entry.value, allowed_keys(kInputKeys, {"health"}), what);
+                   if (const ConfigNode* block = entry.value.find("health")) {
+                     health[entry.key] = read_input_health(reader, *block, what + ": key 'health'");
+                   }
                    if (read_keys(reader, entry.value, kInputKeys, input, what)) {
                      asset.inputs.push_back(std::move(input));
                    }

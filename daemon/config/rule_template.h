@@ -24,6 +24,7 @@
 #include "config/field_reader.h"
 #include "config/schema.h"
 #include "config/source_text.h"
+#include "engine/sensor_health.h"
 #include "engine/site_model.h"
 
 namespace bw::config {
@@ -46,9 +47,12 @@ ParameterValues default_values(const RuleTemplate& rule);
 TableValues default_tables(const RuleTemplate& rule);
 
 // Appends the template's definitions to `asset` (whose name is used in messages), with the
-// number parameters `values` and the table parameters `tables`.
+// number parameters `values` and the table parameters `tables`, and the sensor-health tuning of
+// its inputs' `health:` blocks (config/health_block.h) to `health`. The default sensor-health
+// checks themselves are added by the site loader once tags are bound.
 void instantiate_template(const RuleTemplate& rule, const SourceText& source,
                           const ParameterValues& values, const TableValues& tables,
-                          engine::AssetSpec& asset, std::vector<Diagnostic>& diagnostics);
+                          engine::AssetSpec& asset, engine::SensorHealthTuning& health,
+                          std::vector<Diagnostic>& diagnostics);
 
 }  // namespace bw::config

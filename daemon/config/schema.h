@@ -12,7 +12,7 @@
 //               kind number (the default): default (required) a number or duration
 //               kind table: a strapping table (level ft -> volume bbl); no default (none), no
 //               min or max; a site gives it as [[level, volume], ...] or a CSV file path
-//   inputs:     {<role>: kInputKeys}
+//   inputs:     {<role>: kInputKeys + health}   health: see kStaleHealthKeys below
 //   signals:    {<name>: kSignalKeys}          op: linear, sum, difference, product, ratio, gate,
 //                                                  tank_volume (diameter, strapping_table)
 //   estimators: {<name>: {kind, restart_on, ...}}  kind: ewma, cusum, ewma_chart, rls, trend,
@@ -26,7 +26,8 @@
 // Any numeric value in a template may name a parameter instead; `strapping_table` names a table
 // parameter or is written inline as [[level, volume], ...].
 // Site schema (see site_loader.h): site {name, time_zone}, rules [folders], assets {<name>:
-// {template, description, tags {role: tag}, parameters {name: value}}}, live {...} (live_spec.h).
+// {template, description, tags {role: tag}, parameters {name: value}, sensor_health {role: health}}},
+// live {...} (live_spec.h).
 // A whole-number (int) member takes the number's value only when it has no fraction; every int
 // key gives both bounds.
 #pragma once
@@ -49,6 +50,7 @@
 #include "config/strapping_table_reader.h"
 #include "core/overloaded.h"
 #include "core/tank_geometry.h"
+#include "engine/sensor_health.h"
 #include "engine/site_model.h"
 
 namespace bw::config {
@@ -67,7 +69,8 @@ template <class Spec>
 using Member = std::variant<
     double Spec::*, int Spec::*, bool Spec::*, std::string Spec::*,
     std::vector<std::string> Spec::*, std::optional<double> Spec::*, engine::BaselineSpec Spec::*,
-    engine::Priority Spec::*, engine::LimitDirection Spec::*, engine::SignalOp Spec::*,
+    engine::Priority Spec::*, std::optional<engine::Priority> Spec::*,
+    engine::LimitDirection Spec::*, engine::SignalOp Spec::*,
     engine::Measurement Spec::*, engine::RateDirection Spec::*, engine::HallWindowBasis Spec::*,
     engine::RecordPeriod Spec::*, engine::RecordStat Spec::*,
     std::optional<engine::SuppressionSpec> Spec::*, PayloadFormat Spec::*, RangeMembers<Spec>,
@@ -326,10 +329,12 @@ inline constexpr std::array<Key<engine::StaleCheckSpec>, 2> kStaleCheckKeys{{
     {"factor", &engine::StaleCheckSpec::factor, kAtLeastOne},
 }};
 
-inline constexpr std::array<Key<engine::FlatlineCheckSpec>, 3> kFlatlineCheckKeys{{
+// tolerance 0: the values must be identical.
+inline constexpr std::array<Key<engine::FlatlineCheckSpec>, 4> kFlatlineCheckKeys{{
     {"of", &engine::FlatlineCheckSpec::of, kAnyValue, false, true},
-    {"tolerance", &engine::FlatlineCheckSpec::tolerance, kPositive, false, true},
+    {"tolerance", &engine::FlatlineCheckSpec::tolerance, kNonNegative, false, true},
     {"window", &engine::FlatlineCheckSpec::window_s, kPositive, true, true},
+    {"at_rest_up_to", &engine::FlatlineCheckSpec::at_rest_up_to},
 }};
 
 inline constexpr std::array<Key<engine::OutOfRangeCheckSpec>, 2> kOutOfRangeCheckKeys{{
@@ -355,6 +360,31 @@ inline constexpr std::array<Key<engine::RecordFieldSpec>, 5> kRecordFieldKeys{{
     {"rate_per", &engine::RecordFieldSpec::rate_per_s, kPositive, true},
     {"unit", &engine::RecordFieldSpec::unit},
     {"above", &engine::RecordFieldSpec::above},
+}};
+
+// Sensor health (engine/sensor_health.h): the settings of each default check of an input, in a
+// template input's `health:` block and a site asset's `sensor_health: {<role>: ...}`. Each kind
+// is written `off`, `on`, or a mapping of these keys (which also switches it on); the whole
+// block may be `off` or `on`. Read by config/health_block.h.
+inline constexpr std::array<Key<engine::HealthCheckTuning>, 2> kStaleHealthKeys{{
+    {"factor", &engine::HealthCheckTuning::factor, kAtLeastOne},
+    {"priority", &engine::HealthCheckTuning::priority},
+}};
+
+inline constexpr std::array<Key<engine::HealthCheckTuning>, 4> kFlatlineHealthKeys{{
+    {"window", &engine::HealthCheckTuning::window_s, kPositive, true},
+    {"tolerance", &engine::HealthCheckTuning::tolerance, kNonNegative},
+    {"at_rest_up_to", &engine::HealthCheckTuning::at_rest_up_to},
+    {"priority", &engine::HealthCheckTuning::priority},
+}};
+
+inline constexpr std::array<Key<engine::HealthCheckTuning>, 2> kOutOfRangeHealthKeys{{
+    {"margin", &engine::HealthCheckTuning::margin_percent, kPercent},
+    {"priority", &engine::HealthCheckTuning::priority},
+}};
+
+inline constexpr std::array<Key<engine::HealthCheckTuning>, 1> kNe43HealthKeys{{
+    {"priority", &engine::HealthCheckTuning::priority},
 }};
 
 inline constexpr std::array<Key<engine::SiteSpec>, 2> kSiteKeys{{
@@ -489,6 +519,9 @@ bool read_keys(FieldReader& reader, const ConfigNode& map, const std::array<Key<
             [&](std::vector<std::string> Spec::*m) { store(m, reader.text_list(*value, what)); },
             [&](engine::BaselineSpec Spec::*m) { read_baseline(reader, *value, what, out.*m); },
             [&](engine::Priority Spec::*m) {
+              store(m, reader.choice<engine::Priority>(*value, what, kPriorityNames));
+            },
+            [&](std::optional<engine::Priority> Spec::*m) {
               store(m, reader.choice<engine::Priority>(*value, what, kPriorityNames));
             },
             [&](engine::LimitDirection Spec::*m) {

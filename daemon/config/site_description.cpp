@@ -185,9 +185,14 @@ std::string describe_check(const engine::AssetSpec& asset, const engine::CheckSp
                    format_duration(interval) + ")";
           },
           [&](const engine::FlatlineCheckSpec& s) {
-            return "flatline, when " + s.of + " moves less than " +
-                   with_unit(s.tolerance, unit_of(asset, s.of)) + " for " +
-                   format_duration(s.window_s);
+            const std::string unit = unit_of(asset, s.of);
+            return "flatline, when " + s.of +
+                   (s.tolerance > 0 ? " moves less than " + with_unit(s.tolerance, unit)
+                                    : std::string(" repeats one value")) +
+                   " for " + format_duration(s.window_s) +
+                   (s.at_rest_up_to
+                        ? " (at or below " + with_unit(*s.at_rest_up_to, unit) + ": at rest)"
+                        : std::string());
           },
           [](const engine::OutOfRangeCheckSpec& s) {
             return "out of range, when " + s.of + " leaves its range" +

@@ -9,6 +9,7 @@
 #include <variant>
 
 #include "config/field_reader.h"
+#include "config/health_block.h"
 #include "config/live_section.h"
 #include "config/schema.h"
 #include "config/source_text.h"
@@ -16,6 +17,7 @@
 #include "config/template_library.h"
 #include "config/yaml_document.h"
 #include "engine/asset_graph.h"
+#include "engine/sensor_health.h"
 
 namespace bw::config {
 namespace {
@@ -135,7 +137,8 @@ class SiteLoader {
   // Returns false when the asset could not be instantiated at all.
   bool read_asset(const ConfigNode& map, const std::string& what, engine::AssetSpec& asset) {
     if (!reader_.expect_map(map, what)) return false;
-    reader_.check_keys(map, allowed_keys(kAssetKeys, {"tags", "parameters"}), what);
+    reader_.check_keys(map, allowed_keys(kAssetKeys, {"tags", "parameters", "sensor_health"}),
+                       what);
     if (!read_keys(reader_, map, kAssetKeys, asset, what)) return false;
     const ConfigNode& template_node = *map.find("template");
     const TemplateLibrary::Entry* entry = library_->find(asset.template_name, diagnostics_);
@@ -148,9 +151,40 @@ class SiteLoader {
     ParameterValues values = default_values(rule);
     TableValues tables = default_tables(rule);
     read_parameters(map.find("parameters"), what, rule, values, tables);
-    instantiate_template(rule, entry->source, values, tables, asset, diagnostics_);
+    engine::SensorHealthTuning health;
+    instantiate_template(rule, entry->source, values, tables, asset, health, diagnostics_);
     bind_tags(map.find("tags"), what, rule, asset);
+    read_sensor_health(map.find("sensor_health"), what, rule, health);
+    report(engine::add_sensor_health_checks(asset, health));
     return true;
+  }
+
+  // Input roles come from the template text, so a role whose definition has an error is still
+  // known.
+  static std::vector<std::string_view> template_roles(const RuleTemplate& rule) {
+    std::vector<std::string_view> roles;
+    if (const ConfigNode* inputs = rule.document.find("inputs")) {
+      for (const auto& input : inputs->entries) roles.push_back(input.key);
+    }
+    return roles;
+  }
+
+  // The asset's `sensor_health: {<role>: <health block>}`, overlaid on the template's tuning.
+  void read_sensor_health(const ConfigNode* section_node, const std::string& what,
+                          const RuleTemplate& rule, engine::SensorHealthTuning& health) {
+    if (section_node == nullptr) return;
+    const std::string section = what + ": key 'sensor_health'";
+    if (!reader_.expect_map(*section_node, section)) return;
+    const std::vector<std::string_view> roles = template_roles(rule);
+    for (const MapEntry* entry : reader_.unique_entries(*section_node, section)) {
+      if (std::find(roles.begin(), roles.end(), entry->key) == roles.end()) {
+        reader_.error(*entry, section + ": template '" + rule.name + "' has no input role '" +
+                                  entry->key + "'" + did_you_mean(entry->key, roles));
+        continue;
+      }
+      merge_tuning(health[entry->key], read_input_health(reader_, entry->value,
+                                                         section + ": role '" + entry->key + "'"));
+    }
   }
 
   void report_unknown_template(const ConfigNode& at, const std::string& what,
@@ -221,11 +255,7 @@ class SiteLoader {
     if (tags == nullptr) return;
     const std::string section = what + ": key 'tags'";
     if (!reader_.expect_map(*tags, section)) return;
-    // Roles come from the template text, so a role whose definition has an error is still known.
-    std::vector<std::string_view> roles;
-    if (const ConfigNode* inputs = rule.document.find("inputs")) {
-      for (const auto& input : inputs->entries) roles.push_back(input.key);
-    }
+    const std::vector<std::string_view> roles = template_roles(rule);
     for (const MapEntry* entry : reader_.unique_entries(*tags, section)) {
       if (std::find(roles.begin(), roles.end(), entry->key) == roles.end()) {
         reader_.error(*entry, what + ": template '" + rule.name + "' has no input role '" +
@@ -245,8 +275,11 @@ class SiteLoader {
     }
   }
 
-  void analyse(const engine::AssetSpec& asset) {
-    for (const auto& problem : engine::analyse_asset(asset).problems) {
+  void analyse(const engine::AssetSpec& asset) { report(engine::analyse_asset(asset).problems); }
+
+  // Problems found by the engine, at the file (site or template) they point into.
+  void report(const std::vector<engine::GraphProblem>& problems) {
+    for (const auto& problem : problems) {
       const SourceText* text = problem.where.file == source_.label()
                                    ? &source_
                                    : library_->source_for(problem.where.file);

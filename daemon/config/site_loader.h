@@ -17,6 +17,9 @@
 //                              a duration is allowed when the parameter's unit is "s"; a table
 //                              parameter takes [[level, volume], ...] or the path of a CSV file
 //                              relative to the site file (config/strapping_table_reader.h)
+//       sensor_health: {level: {flatline: off}}   optional; per input role, the tuning of its
+//                              default sensor-health checks (config/health_block.h), overlaid
+//                              on the template's `health:` block of that input
 //   live:                      optional; the broker, topics and state of `brinewatch run`
 //                              (schema in live_spec.h, checks in live_section.h)
 //
@@ -24,7 +27,8 @@
 // passed by the caller; load_site() adds, only when neither gives any folder, the folder `rules`
 // beside the site file's folder and then /usr/share/brinewatch/rules.
 //
-// Every asset is instantiated from its template with its parameter values, its tags bound, and
+// Every asset is instantiated from its template with its parameter values, its tags bound, the
+// default sensor-health checks of its bound inputs added (engine/sensor_health.h), and
 // checked with engine::analyse_asset(); the analysis' problems become diagnostics. Loading keeps
 // going past errors and reports all of them (each exactly once), with file, 1-based line and
 // column, what was expected, and for unknown names the nearest valid one. The site is returned

@@ -54,26 +54,34 @@ class FlatlineCheckNode final : public CheckNode {
         window_s_(spec.window_s),
         window_(
             std::chrono::duration_cast<core::Micros>(std::chrono::duration<double>(spec.window_s))),
+        at_rest_up_to_(spec.at_rest_up_to),
         sources_(sources) {
-    assert(tolerance_ > 0 && window_s_ > 0);
+    assert(tolerance_ >= 0 && window_s_ > 0);
   }
 
   std::optional<CheckOutcome> evaluate(core::SensorTime now) override {
     const double v = *sources_.value;
+    if (at_rest_up_to_ && v <= *at_rest_up_to_) {
+      // A resting machine or an empty vessel holds its value legitimately: no window runs.
+      window_start_.reset();
+      if (!active()) return std::nullopt;
+      return change_to(false, v,
+                       figure(v, sources_.unit) + ", at rest (at or below " +
+                           figure(*at_rest_up_to_, sources_.unit) + ")");
+    }
     if (!window_start_ || std::abs(v - anchor_) > tolerance_) {
       const bool was_stuck = active();
       const double moved = v - anchor_;
       anchor_ = v;
       window_start_ = now;
       if (!was_stuck) return std::nullopt;
-      return change_to(false, v,
-                       "moved by " + figure(moved, sources_.unit) + ", beyond the tolerance " +
-                           figure(tolerance_, sources_.unit));
+      return change_to(false, v, "moved by " + figure(moved, sources_.unit) + tolerance_words());
     }
     if (active() || now - *window_start_ < window_) return std::nullopt;
+    const std::string how = tolerance_ > 0 ? "no change beyond " + figure(tolerance_, sources_.unit)
+                                           : std::string("the same value");
     return change_to(true, v,
-                     "no change beyond " + figure(tolerance_, sources_.unit) + " for " +
-                         duration_words(window_s_) + " (stuck at " +
+                     how + " for " + duration_words(window_s_) + " (stuck at " +
                          figure(anchor_, sources_.unit) + "?)");
   }
 
@@ -88,9 +96,15 @@ class FlatlineCheckNode final : public CheckNode {
     return in.ok();
   }
 
+  std::string tolerance_words() const {
+    return tolerance_ > 0 ? ", beyond the tolerance " + figure(tolerance_, sources_.unit)
+                          : std::string();
+  }
+
   double tolerance_;
   double window_s_;
   core::Micros window_;
+  std::optional<double> at_rest_up_to_;
   CheckSources sources_;
   double anchor_ = 0;
   std::optional<core::SensorTime> window_start_;

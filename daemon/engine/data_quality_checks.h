@@ -6,8 +6,10 @@
 //                 input was never heard. Falls due at deadline() without a sample; clears on the
 //                 next sample. Not held by bad or silent data: silence is what it reports.
 //   flatline:     a stuck transmitter: every sample since the first of the window within
-//                 `tolerance` of it for at least `window`. A sample beyond the tolerance starts a
-//                 new window and clears the condition.
+//                 `tolerance` of it for at least `window` (tolerance 0: every sample identical to
+//                 it). A sample beyond the tolerance starts a new window and clears the
+//                 condition. A sample at or below `at_rest_up_to` (a machine at rest) ends the
+//                 window and clears the condition; the next sample above it starts a new one.
 //   out_of_range: the value is outside the input's range widened by margin percent of the span:
 //                 the instrument is over- or under-ranged.
 //   ne43:         the input is a raw 4-20 mA current: active at or below 3.6 mA (low failure

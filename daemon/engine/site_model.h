@@ -11,7 +11,8 @@
 //     are all "signals" and may feed estimators, other derived signals, limit and rate checks
 //     and suppression conditions;
 //   - statistical and time-to-limit checks name an estimator directly;
-//   - data-quality checks (stale, flatline, out_of_range, ne43) name an input;
+//   - data-quality checks (stale, flatline, out_of_range, ne43) name an input; the loader adds
+//     the default ones of every bound input (engine/sensor_health.h) as ordinary checks;
 //   - every bound input also has an implicit data-quality check "<role>_quality", so no
 //     configured check may take that name.
 // Invariants established by the loader with engine/asset_graph.h (the engine asserts them):
@@ -269,10 +270,15 @@ struct StaleCheckSpec {  // no sample within factor x the input's expected_inter
   double factor = 3.0;
 };
 
-struct FlatlineCheckSpec {  // every sample within `tolerance` of the window's first for `window`
+// Every sample within `tolerance` of the window's first for `window`. Tolerance 0 asks for
+// identical values (a frozen register repeats its value bit for bit). A value at or below
+// `at_rest_up_to` is a machine or vessel at rest (a stopped pump's flow and current, an empty
+// tank), not a stuck transmitter: it restarts the window and clears the condition.
+struct FlatlineCheckSpec {
   std::string of;
-  double tolerance = 0;  // engineering units, > 0
-  double window_s = 0;   // > 0
+  double tolerance = 0;                 // engineering units, >= 0
+  double window_s = 0;                  // > 0
+  std::optional<double> at_rest_up_to;  // engineering units; unset: no value counts as at rest
 };
 
 struct OutOfRangeCheckSpec {  // the value is outside the input's range, widened by `margin`

@@ -136,6 +136,7 @@ void put_check(StateWriter& w, const CheckKind& kind) {
                    w.put_string(s.of);
                    w.put_double(s.tolerance);
                    w.put_double(s.window_s);
+                   put_optional(w, s.at_rest_up_to);
                  },
                  [&](const OutOfRangeCheckSpec& s) {
                    w.put_string(s.of);

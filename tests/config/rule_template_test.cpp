@@ -14,6 +14,7 @@ namespace {
 struct Compiled {
   std::optional<RuleTemplate> rule;
   engine::AssetSpec asset;
+  engine::SensorHealthTuning health;
   std::vector<Diagnostic> diagnostics;
 };
 
@@ -30,7 +31,7 @@ Compiled compile(const std::string& text, const std::string& name = "probe") {
   if (out.rule) {
     out.asset.name = "asset_a";
     instantiate_template(*out.rule, source, default_values(*out.rule), default_tables(*out.rule),
-                         out.asset, out.diagnostics);
+                         out.asset, out.health, out.diagnostics);
   }
   return out;
 }

@@ -13,7 +13,8 @@
 //
 // Scoring (see alert_scoring.h for the exact rules):
 //   - only "raised" events count; the shift checks (shift_cusum, shift_ewma) are scored, the
-//     sensor-health checks (flatline, stale, value_quality) are counted separately;
+//     sensor-health checks (the defaults value_flatline and value_stale that every bound input
+//     gets, tuned by signal_watch's parameters, and value_quality) are counted separately;
 //   - a shift raise inside the file's labelled window is a true raise: SKAB rows with
 //     anomaly = 1; 3W from the onset (first class 102/106 row) to the end of the file (rows of
 //     class 102/106/2/6);
@@ -57,10 +58,10 @@
 //   | inside the window              | alert was raised on an unlabelled row just before onset   |
 //   |                                | (unscored) and stays raised through the event: a held     |
 //   |                                | baseline signals once; tree temperature carries the file  |
-//   | 3W health                      | flatline on every dead or frozen P-PDG; also on P-TPT of  |
-//   |                                | WELL-00009, which is constant for 30 min (a real frozen   |
-//   |                                | stretch); stale on P-MON-CKP where the file has no such   |
-//   |                                | column (WELL-00011 x2, WELL-00013)                        |
+//   | 3W health                      | value_flatline on every dead or frozen P-PDG; also on     |
+//   |                                | P-TPT of WELL-00009, constant for 30 min (a real frozen   |
+//   |                                | stretch); value_stale on P-MON-CKP where the file has no  |
+//   |                                | such column (WELL-00011 x2, WELL-00013)                   |
 #include <gtest/gtest.h>
 
 #include <algorithm>
@@ -343,7 +344,7 @@ TEST(BenchLoop, CurrentPressureAndVoltageStayQuiet) {
 TEST(BenchLoop, StaleRaisedExactlyWhereTheFileHasGapsAndNoFlatline) {
   for (const auto& o : outcomes(Dataset::skab)) {
     const bool gap = o.labels.largest_step > 3;
-    EXPECT_EQ(o.score.health("loop_flow", "stale") > 0, gap)
+    EXPECT_EQ(o.score.health("loop_flow", "value_stale") > 0, gap)
         << o.file << " largest step " << o.labels.largest_step << " s";
     for (const auto& [name, count] : o.score.health_raises) {
       EXPECT_EQ(name.find("flatline"), std::string::npos) << o.file << " " << name;
@@ -379,7 +380,9 @@ TEST(WellStudy, SafetyValveClosureSeenAtTheTree) {
 
 // PROVENANCE (3w): P-PDG is exactly 0 for the whole file in WELL-00009, WELL-00013 and the
 // three WELL-00004 files, and frozen in WELL-00011_20140720120102. A dead or stuck gauge is the
-// flatline check's job; the shift checks never learn a zero spread, so they must stay silent.
+// job of the default flatline check every bound input gets (signal_watch sets its window to
+// 10 min; nothing in the site or template writes a flatline check by hand); the shift checks
+// never learn a zero spread, so they must stay silent.
 TEST(WellStudy, DeadAndFrozenDownholeGaugeRaiseFlatlineNotShift) {
   int dead_files = 0;
   for (const auto& o : outcomes(Dataset::wells)) {
@@ -388,7 +391,7 @@ TEST(WellStudy, DeadAndFrozenDownholeGaugeRaiseFlatlineNotShift) {
                       o.file.find("WELL-00004") != std::string::npos ||
                       o.file.find("WELL-00011_20140720120102") != std::string::npos;
     dead_files += dead ? 1 : 0;
-    EXPECT_EQ(o.score.health("downhole_pressure", "flatline") > 0, dead) << o.file;
+    EXPECT_EQ(o.score.health("downhole_pressure", "value_flatline") > 0, dead) << o.file;
     if (dead) {
       EXPECT_EQ(o.score.asset("downhole_pressure").all(), 0) << o.file;
     }
