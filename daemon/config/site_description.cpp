@@ -33,17 +33,11 @@ std::string unit_of(const engine::AssetSpec& asset, const std::string& ref) {
   for (const auto& e : asset.estimators) {
     if (e.name != head) continue;
     const std::string output = ref.substr(dot + 1);
-    const auto inputs = engine::estimator_inputs(e.kind);
-    const std::string base = inputs.empty() ? "" : unit_of(asset, inputs.front());
-    if (output == "per_hour" || output == "slope_per_hour") return base + "/h";
-    if (output == "residual_percent") return "%";
-    if (output == "upper" || output == "lower") return "sigma";
-    if (output == "slope_change_percent") return "%";
-    if (output == "integral") return "psi*d";
-    if (output == "volume") return "bbl";
-    if (output == "slope") return "psi*d/bbl";
-    if (output == "injectivity") return "bbl/d/psi";
-    return base;
+    std::vector<std::string> input_units;
+    for (const auto& input : engine::estimator_inputs(e.kind)) {
+      input_units.push_back(unit_of(asset, input));
+    }
+    return engine::estimator_output_unit(output, input_units);
   }
   return "";
 }

@@ -372,6 +372,24 @@ std::string_view signal_op_name(SignalOp op) {
   return "unknown";
 }
 
+std::string estimator_output_unit(std::string_view output,
+                                  const std::vector<std::string>& input_units) {
+  const std::string& input_unit = input_units[0];
+  if (output == "slope_per_hour" || output == "per_hour") return input_unit + "/h";
+  if (output == "online_hours" || output == "hours") return "h";
+  if (output == "days_in_service") return "d";
+  if (output == "unexplained_drop" || output == "change_outs" || output == "active") return "";
+  if (output == "throughput") return input_units[1].substr(0, input_units[1].find('/'));
+  if (output == "peak_rate") return input_units[1];
+  if (output == "residual_percent" || output == "slope_change_percent") return "%";
+  if (output == "integral") return "psi*d";
+  if (output == "volume") return "bbl";
+  if (output == "slope") return "psi*d/bbl";
+  if (output == "injectivity") return "bbl/d/psi";
+  if (output == "upper" || output == "lower") return "sigma";
+  return input_unit;
+}
+
 std::string_view estimator_kind_name(const EstimatorKind& kind) {
   return std::visit(core::Overloaded{
                         [](const EwmaSpec&) { return std::string_view("ewma"); },

@@ -54,6 +54,11 @@ std::string_view estimator_kind_name(const EstimatorKind& kind);
 // The outputs an estimator kind publishes as signals "<estimator>.<output>".
 std::span<const std::string_view> estimator_outputs(const EstimatorKind& kind);
 
+// The engineering unit of estimator output `output`, from the units of the estimator's inputs
+// (estimator_inputs() order; at least one).
+std::string estimator_output_unit(std::string_view output,
+                                  const std::vector<std::string>& input_units);
+
 // Signals an estimator reads, in the order it reads them (target first for rls; injection
 // pressure, then rate, for hall).
 std::vector<std::string> estimator_inputs(const EstimatorKind& kind);

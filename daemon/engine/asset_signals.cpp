@@ -13,24 +13,6 @@ namespace {
 constexpr std::uint8_t kStateVersion = 1;
 
 // The unit of an estimator output, given the unit of the signal it watches.
-// The unit of an estimator output, from its name and the units of the estimator's inputs.
-std::string output_unit(std::string_view output, const std::vector<std::string>& input_units) {
-  const std::string& input_unit = input_units[0];
-  if (output == "slope_per_hour" || output == "per_hour") return input_unit + "/h";
-  if (output == "online_hours" || output == "hours") return "h";
-  if (output == "days_in_service") return "d";
-  if (output == "unexplained_drop" || output == "change_outs" || output == "active") return "";
-  if (output == "throughput") return input_units[1].substr(0, input_units[1].find('/'));
-  if (output == "peak_rate") return input_units[1];
-  if (output == "residual_percent" || output == "slope_change_percent") return "%";
-  if (output == "integral") return "psi*d";
-  if (output == "volume") return "bbl";
-  if (output == "slope") return "psi*d/bbl";
-  if (output == "injectivity") return "bbl/d/psi";
-  if (output == "upper" || output == "lower") return "sigma";
-  return input_unit;
-}
-
 double apply(const SignalSpec& spec, const std::vector<double>& values,
              const std::vector<std::size_t>& slots) {
   double acc = values[slots[0]];
@@ -125,7 +107,7 @@ void AssetSignals::compile() {
                          outputs.size(),
                          {}};
       for (std::size_t o = 0; o < outputs.size(); ++o) {
-        slot_units_[step.first_output_slot + o] = output_unit(outputs[o], input_units);
+        slot_units_[step.first_output_slot + o] = estimator_output_unit(outputs[o], input_units);
       }
       widest = std::max(widest, step.input_slots.size());
       estimators_.push_back(std::move(step));

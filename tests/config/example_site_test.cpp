@@ -2,7 +2,10 @@
 #include <gtest/gtest.h>
 
 #include <cmath>
+#include <filesystem>
 #include <numbers>
+#include <set>
+#include <string>
 
 #include "config/site_loader.h"
 #include "spec_lookup.h"
@@ -38,10 +41,22 @@ TEST_F(ExampleSite, LoadsWithNoDiagnostics) {
   EXPECT_EQ(site().name, "Dry Creek SWD 4");
   EXPECT_EQ(site().time_zone, "America/Chicago");
   EXPECT_EQ(site().file, kExampleSite);
-  ASSERT_EQ(site().assets.size(), 7u);  // three tanks, then the pump, compressor, well, gun barrel
+  // three tanks, then the pump, compressor, well, gun barrel, filters and a single signal
+  ASSERT_EQ(site().assets.size(), 9u);
   EXPECT_EQ(site().assets[0].name, "skim_tank");  // file order is kept
   EXPECT_EQ(site().assets[1].name, "water_tank_1");
   EXPECT_EQ(site().assets[2].name, "water_tank_2");
+}
+
+// The example site is the reference an engineer copies from: it binds every shipped template.
+TEST_F(ExampleSite, BindsEveryShippedTemplate) {
+  std::set<std::string> bound;
+  for (const auto& asset : site().assets) bound.insert(asset.template_name);
+  for (const auto& file : std::filesystem::directory_iterator(kShippedRules)) {
+    if (file.path().extension() != ".yaml") continue;
+    EXPECT_TRUE(bound.contains(file.path().stem().string()))
+        << "no asset of the example site uses rules/" << file.path().filename().string();
+  }
 }
 
 TEST_F(ExampleSite, AppliesParameterOverridesWhereTheyAreUsed) {

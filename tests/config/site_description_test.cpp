@@ -23,8 +23,8 @@ class ExampleSiteDescription : public ::testing::Test {
 };
 
 TEST_F(ExampleSiteDescription, MentionsEveryAssetTagAndCheck) {
-  EXPECT_TRUE(mentions("site Dry Creek SWD 4 (time zone America/Chicago), 7 assets")) << text_;
-  ASSERT_EQ(site_.assets.size(), 7u);
+  EXPECT_TRUE(mentions("site Dry Creek SWD 4 (time zone America/Chicago), 9 assets")) << text_;
+  ASSERT_EQ(site_.assets.size(), 9u);
   for (const auto& asset : site_.assets) {
     EXPECT_TRUE(mentions("asset " + asset.name + " (template " + asset.template_name + ")"))
         << asset.name;
