@@ -27,8 +27,10 @@ std::optional<Episode::Closed> Episode::update(double quantity, double rate, Sen
       start_value_ = quantity;
       change_ = 0;
       peak_rate_ = rate;
+      peak_value_ = quantity;
     }
     peak_rate_ = std::max(peak_rate_, rate);
+    peak_value_ = std::max(peak_value_, quantity);
     change_ = quantity - start_value_;
     if (rate >= options_.start_above) {
       active_ = true;
@@ -36,21 +38,21 @@ std::optional<Episode::Closed> Episode::update(double quantity, double rate, Sen
     }
     return std::nullopt;
   }
+  peak_value_ = std::max(peak_value_, quantity);
+  change_ = quantity - start_value_;
   if (!low) {
     low_since_set_ = false;
     peak_rate_ = std::max(peak_rate_, rate);
-    change_ = quantity - start_value_;
     return std::nullopt;
   }
   if (!low_since_set_) {
     low_since_set_ = true;
     low_since_ = t;
-    value_at_low_ = quantity;
   }
   if (seconds_between(low_since_, t) < options_.end_after_s) return std::nullopt;
   active_ = false;
   armed_ = false;
-  change_ = value_at_low_ - start_value_;
+  change_ = peak_value_ - start_value_;
   return Closed{.start = start_, .end = low_since_, .change = change_, .peak_rate = peak_rate_};
 }
 
@@ -65,9 +67,9 @@ Episode::State Episode::state() const {
                .start_value = start_value_,
                .change = change_,
                .peak_rate = peak_rate_,
+               .peak_value = peak_value_,
                .low_since_set = low_since_set_,
                .low_since_us = low_since_.time_since_epoch().count(),
-               .value_at_low = value_at_low_,
                .gate = gate_.state()};
 }
 
@@ -78,9 +80,9 @@ void Episode::restore(const State& s) {
   start_value_ = s.start_value;
   change_ = s.change;
   peak_rate_ = s.peak_rate;
+  peak_value_ = s.peak_value;
   low_since_set_ = s.low_since_set;
   low_since_ = SensorTime(Micros(s.low_since_us));
-  value_at_low_ = s.value_at_low;
   gate_.restore(s.gate);
 }
 

@@ -11,9 +11,11 @@
 //   - when r reaches start_above while armed, the episode begins (at the armed moment);
 //   - once in an episode, r below end_below for `end_after_s` seconds ends it, at the first of
 //     those low values; r back at or above end_below before then continues it.
-// change() is q minus q at the possible start while armed or in an episode, and the closed
-// episode's total after it ends, until the tracker arms again; the closed episode (start, end,
-// change, peak rate) is returned by the update that ends it.
+// change() is q minus q at the possible start while armed or in an episode; when the episode
+// ends, its total is the largest q seen during it minus q at the start (an episode is a stretch
+// of rise, and what comes after its peak, such as skimming the pad, is not part of it). The
+// total is held until the tracker arms again; the closed episode (start, end, total, peak
+// rate) is returned by the update that ends it.
 //
 // Invariants: end_below < start_above; times never go backwards (gate). O(1), no allocation.
 // Copyable; not thread-safe (one owner).
@@ -49,9 +51,9 @@ class Episode {
     double start_value = 0;
     double change = 0;
     double peak_rate = 0;
+    double peak_value = 0;
     bool low_since_set = false;
     std::int64_t low_since_us = 0;
-    double value_at_low = 0;
     SampleGate::State gate;
     bool operator==(const State&) const = default;
   };
@@ -78,9 +80,9 @@ class Episode {
   double start_value_ = 0;
   double change_ = 0;
   double peak_rate_ = 0;
+  double peak_value_ = 0;
   bool low_since_set_ = false;
   SensorTime low_since_{};
-  double value_at_low_ = 0;
   SampleGate gate_;
 };
 

@@ -218,9 +218,9 @@ void put(StateWriter& out, const core::Episode::State& s) {
   out.put_double(s.start_value);
   out.put_double(s.change);
   out.put_double(s.peak_rate);
+  out.put_double(s.peak_value);
   out.put_bool(s.low_since_set);
   out.put_i64(s.low_since_us);
-  out.put_double(s.value_at_low);
   put(out, s.gate);
 }
 
@@ -231,9 +231,9 @@ bool get(StateReader& in, core::Episode::State& s) {
   s.start_value = in.get_double();
   s.change = in.get_double();
   s.peak_rate = in.get_double();
+  s.peak_value = in.get_double();
   s.low_since_set = in.get_bool();
   s.low_since_us = in.get_i64();
-  s.value_at_low = in.get_double();
   return get(in, s.gate);
 }
 

@@ -95,9 +95,21 @@ TEST(Episode, EndsOnlyAfterTheRateStaysLow) {
   ASSERT_TRUE(closed.has_value());
   EXPECT_EQ(closed->start, at(0));
   EXPECT_EQ(closed->end, at(180));
-  EXPECT_DOUBLE_EQ(closed->change, 5);  // the quantity when the rate went low for good
+  EXPECT_DOUBLE_EQ(closed->change, 7);  // the largest quantity during the episode
   EXPECT_DOUBLE_EQ(closed->peak_rate, 20);
   EXPECT_FALSE(episode.active());
+}
+
+// Skimming right after a slug takes the pad down while the smoothed rate is still falling: the
+// slug's total is its peak, not what is left when the episode ends.
+TEST(Episode, TotalIsThePeakRiseNotWhatRemainsAfterSkimming) {
+  Episode episode(Episode::Options{.start_above = 10, .end_below = 5, .end_after_s = 600});
+  episode.update(100, 20, at(0));
+  episode.update(130, 25, at(3600));   // 30 bbl arrived
+  episode.update(110, 1, at(3660));    // skimming began
+  const auto closed = episode.update(90, -50, at(4260));
+  ASSERT_TRUE(closed.has_value());
+  EXPECT_DOUBLE_EQ(closed->change, 30);
 }
 
 TEST(Episode, RestoreContinuesBitForBit) {

@@ -111,6 +111,28 @@ TEST(SockFilterTemplate, ChangeOutRestartsTheLoadingTrend) {
   const auto ahead = first_raised(events, "change_out_ahead");
   ASSERT_TRUE(ahead.has_value()) << ::testing::PrintToString(raised_list(events));
   const double clean_h = change_h + 0.75;
+  // The change-out record of the old socks: on line from 0 h to 96 h (the dP reading of the
+  // first minute of the stop arrives before the flow reading does, so it is read at the last
+  // flow: the engine sees the socks on line until 96 h); throughput the flow held minute by minute, which over four whole days of the 24 h
+  // sine is 9,000 bbl/d x 4 d = 36,000 bbl (the sine integrates to zero over whole periods;
+  // the flow noise averages out to well under 0.1 %).
+  const auto records = bw::testing::records_of("filter-change-out", "sock_filters");
+  ASSERT_EQ(records.size(), 1u);
+  const auto& change = records[0];
+  EXPECT_EQ(change.source, "element_life");
+  EXPECT_EQ(change.kind, "change_out");
+  EXPECT_NEAR(change.hours, clean_h, 1.0 / 60);
+  EXPECT_NEAR(change.field("online_hours").value_or(-1), 96.0, 1e-6);
+  EXPECT_NEAR(change.field("run_life_days").value_or(-1), 96.0 / 24, 1e-6);
+  EXPECT_NEAR(change.field("throughput").value_or(-1), 36000.0, 36.0);
+  // Ruth's law: 4 + 12.6 = 16.6 psi after 36,000 bbl; the reference mean lags the rise
+  // by about slope x 2 h (0.13125 psi/h x 2 h = 0.26 psi); clean socks read 4 psi.
+  EXPECT_NEAR(change.field("dp_before").value_or(-1), 16.6 - 0.26, 0.3);
+  EXPECT_NEAR(change.field("dp_after").value_or(-1), 4.0, 0.2);
+  EXPECT_EQ(change.field("whole_life_seen"), 0.0);
+  std::printf("[ figures ] change-out record: %.2f h on line, %.0f bbl through, dP %.2f -> %.2f psi\n",
+              change.field("online_hours").value_or(-1), change.field("throughput").value_or(-1),
+              change.field("dp_before").value_or(-1), change.field("dp_after").value_or(-1));
   std::printf("[ figures ] after the change-out, change_out_ahead raised %.1f h into the new "
               "socks' life (Ruth's law: 25 psi at 160.0 h)\n",
               *ahead - clean_h);

@@ -87,6 +87,16 @@ TEST(WaterTankTemplate, OilSlugRaisesWithinFifteenMinutes) {
               large_min);
   EXPECT_GE(large_min, 39.0);
   EXPECT_LE(large_min, 50.0);
+  // The slug's record: 30 bbl of slug plus the normal 0.6 bbl/h over the episode, less what the
+  // smoothed growth misses before it crosses slug_end_rate (a few minutes' worth). Skimming
+  // starts at 32 h, after the slug's peak, and is not counted against it.
+  const auto records = bw::testing::records_of("tank-slug", "gun_barrel");
+  ASSERT_EQ(records.size(), 1u);
+  EXPECT_EQ(records[0].source, "slug");
+  const double hours = records[0].field("hours").value_or(-1);
+  const double change = records[0].field("change").value_or(-1);
+  std::printf("[ figures ] slug record: %.1f bbl over %.2f h (30 bbl slug)\n", change, hours);
+  EXPECT_NEAR(change, 30.0 + 0.6 * hours, 2.0);
 }
 
 }  // namespace

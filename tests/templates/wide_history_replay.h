@@ -3,13 +3,15 @@
 // A test builds a WideHistory (one row per time, one column per tag, the columns in the order
 // given: within a row the engine receives the tags in that order), writes a small site file that
 // binds one asset to a shipped template, and gets every alert transition as an AlertEvent with
-// its time in hours since the start of the history. Used by the template tests only.
+// its time in hours since the start of the history, and every record (records_of()). Used by
+// the template tests only.
 #pragma once
 
 #include <gtest/gtest.h>
 
 #include <algorithm>
 #include <cstdio>
+#include <cstdlib>
 #include <ctime>
 #include <filesystem>
 #include <fstream>
@@ -86,19 +88,24 @@ inline double hours_since_start(const std::string& iso) {
   return static_cast<double>(timegm(&tm) - kHistoryStart) / 3600.0;
 }
 
-// Writes `site_yaml` and `history` under a scratch folder named `name`, replays, and returns
-// the alert events of asset `asset` in order.
+inline std::filesystem::path history_dir(const std::string& name) {
+  return scratch_dir("templates") / name;
+}
+
+// Writes `site_yaml` and `history` under a scratch folder named `name`, replays (alerts and
+// records, see records_of()), and returns the alert events of asset `asset` in order.
 inline std::vector<AlertEvent> replay_history(const std::string& name, const std::string& site_yaml,
                                               const WideHistory& history,
                                               const std::string& asset) {
-  const auto dir = scratch_dir("templates") / name;
+  const auto dir = history_dir(name);
   std::filesystem::create_directories(dir);
   std::ofstream(dir / "site.yaml") << site_yaml;
   history.write(dir / "history.csv");
   const auto alerts = dir / "alerts.jsonl";
   const CommandResult r =
       run_brinewatch("replay --config " + (dir / "site.yaml").string() + " --input " +
-                     (dir / "history.csv").string() + " --alerts " + alerts.string());
+                     (dir / "history.csv").string() + " --alerts " + alerts.string() +
+                     " --records " + (dir / "records.jsonl").string());
   EXPECT_EQ(r.status, 0) << r.output;
   std::vector<AlertEvent> events;
   for (const auto& line : lines_of(alerts)) {
@@ -107,6 +114,37 @@ inline std::vector<AlertEvent> replay_history(const std::string& name, const std
                       hours_since_start(json_field(line, "time"))});
   }
   return events;
+}
+
+// One record of the replay (io/record_log.h): its source, kind, time and the raw JSON line.
+struct RecordLine {
+  std::string source;
+  std::string kind;
+  double hours = 0;  // since the start of the history
+  std::string json;
+
+  // The value of field `field`; nullopt when absent or null.
+  std::optional<double> field(const std::string& field) const {
+    const std::string marker = "\"" + field + "\":{\"value\":";
+    const auto at = json.find(marker);
+    if (at == std::string::npos) return std::nullopt;
+    const char* begin = json.c_str() + at + marker.size();
+    char* end = nullptr;
+    const double value = std::strtod(begin, &end);
+    if (end == begin) return std::nullopt;
+    return value;
+  }
+};
+
+// The records of asset `asset` written by the replay_history() call named `name`, in order.
+inline std::vector<RecordLine> records_of(const std::string& name, const std::string& asset) {
+  std::vector<RecordLine> records;
+  for (const auto& line : lines_of(history_dir(name) / "records.jsonl")) {
+    if (json_field(line, "asset") != asset) continue;
+    records.push_back({json_field(line, "source"), json_field(line, "kind"),
+                       hours_since_start(json_field(line, "time")), line});
+  }
+  return records;
 }
 
 // The first `raised` event of `check`, if any.
