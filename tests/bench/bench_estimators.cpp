@@ -11,7 +11,9 @@
 #include "../core/test_random.h"
 #include "core/cusum.h"
 #include "core/ewma.h"
+#include "core/episode.h"
 #include "core/ewma_chart.h"
+#include "core/filter_life.h"
 #include "core/rate_of_change.h"
 #include "core/rls.h"
 #include "core/trend.h"
@@ -123,6 +125,20 @@ int main() {
            bw::core::RateOfChange r(900);
            for (int i = 0; i < kUpdates; ++i) r.update(v[i & mask], time_of(i));
            sink = sink + r.per_hour();
+         }),
+         0);
+  report("FilterLife", median_ns_per_update([&] {
+           bw::core::FilterLife life({});
+           for (int i = 0; i < kUpdates; ++i) life.update(v[i & mask], 9000, time_of(i));
+           sink = sink + life.throughput();
+         }),
+         0);
+  report("Episode", median_ns_per_update([&] {
+           bw::core::Episode episode({.start_above = 52, .end_below = 51, .end_after_s = 60});
+           for (int i = 0; i < kUpdates; ++i) {
+             episode.update(v[i & mask], v[(i + 1) & mask], time_of(i));
+           }
+           sink = sink + episode.change();
          }),
          0);
   return 0;
