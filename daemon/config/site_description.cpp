@@ -211,6 +211,20 @@ std::string describe_check(const engine::AssetSpec& asset, const engine::CheckSp
   return out + ": \"" + c.message + "\"";
 }
 
+std::string describe_record(const engine::AssetSpec& asset, const engine::RecordSpec& r) {
+  const auto period = kRecordPeriodNames[static_cast<std::size_t>(r.period)].first;
+  std::string out = "record " + r.name + ": " + std::string(period) + ", the day starting " +
+                    format_duration(r.day_start_s) + " after local midnight;";
+  for (const auto& f : r.fields) {
+    const auto stat = kRecordStatNames[static_cast<std::size_t>(f.stat)].first;
+    out += " " + f.name + " = " + std::string(stat) + " of " + f.of;
+    if (f.stat == engine::RecordStat::total) out += " [" + f.unit + "]";
+    if (f.above) out += " above " + with_unit(*f.above, unit_of(asset, f.of));
+    out += ",";
+  }
+  return out + " " + engine::kCoveredHoursField;
+}
+
 void describe_asset(std::ostringstream& out, const engine::AssetSpec& asset) {
   out << "\nasset " << asset.name << " (template " << asset.template_name << ")";
   if (!asset.description.empty()) out << ": " << asset.description;
@@ -232,6 +246,9 @@ void describe_asset(std::ostringstream& out, const engine::AssetSpec& asset) {
   }
   out << "  checks:\n";
   for (const auto& check : asset.checks) out << "    " << describe_check(asset, check) << "\n";
+  if (asset.records.empty()) return;
+  out << "  records:\n";
+  for (const auto& record : asset.records) out << "    " << describe_record(asset, record) << "\n";
 }
 
 }  // namespace

@@ -34,7 +34,17 @@ TEST_F(ExampleSiteDescription, MentionsEveryAssetTagAndCheck) {
     for (const auto& check : asset.checks) {
       EXPECT_TRUE(mentions("check " + check.name + ": ")) << check.name;
     }
+    for (const auto& record : asset.records) {
+      EXPECT_TRUE(mentions("record " + record.name + ": daily")) << record.name;
+    }
   }
+}
+
+TEST_F(ExampleSiteDescription, ShowsTheWellsDailyRecord) {
+  EXPECT_TRUE(mentions("record daily_injection: daily, the day starting 7h after local midnight; "
+                       "injected_volume = total of rate [bbl], "))
+      << text_;
+  EXPECT_TRUE(mentions("injecting_hours = time_above of rate above "));
 }
 
 TEST_F(ExampleSiteDescription, ShowsLimitsWithUnitsAndPriorities) {
