@@ -206,6 +206,23 @@ std::optional<Variant> read_by_kind(FieldReader& reader, const ConfigNode& map,
   return std::nullopt;
 }
 
+// One entry of a section whose entries have a name, common keys and a `kind` (estimators,
+// checks); nullopt (with diagnostics) when any of it is wrong.
+template <class Spec, std::size_t NC, class Variant, std::size_t NR>
+std::optional<Spec> read_kinded_entry(FieldReader& reader, const SourceText& source,
+                                      const MapEntry& entry, const std::string& what,
+                                      const std::array<Key<Spec>, NC>& common,
+                                      const std::array<KindReader<Variant>, NR>& readers) {
+  Spec spec;
+  spec.name = entry.key;
+  spec.where = where_of(source, entry);
+  const bool common_ok = read_keys(reader, entry.value, common, spec, what);
+  auto kind = read_by_kind(reader, entry.value, readers, what);
+  if (!common_ok || !kind) return std::nullopt;
+  spec.kind = std::move(*kind);
+  return spec;
+}
+
 void read_parameter(FieldReader& reader, const MapEntry& entry, const std::string& what,
                     RuleTemplate& rule) {
   ParameterDecl decl;
@@ -359,30 +376,16 @@ void instantiate_template(const RuleTemplate& rule, const SourceText& source,
   for_each_named(
       reader, doc.find("estimators"), "estimators", "estimator",
       [&](const MapEntry& entry, const std::string& what) {
-        engine::EstimatorSpec estimator;
-        estimator.name = entry.key;
-        estimator.where = where_of(source, entry);
-        const bool common_ok =
-            read_keys(reader, entry.value, kEstimatorCommonKeys, estimator, what);
-        auto kind = read_by_kind(reader, entry.value, kEstimatorReaders, what);
-        if (common_ok && kind) {
-          estimator.kind = std::move(*kind);
-          asset.estimators.push_back(std::move(estimator));
-        }
+        auto estimator = read_kinded_entry<engine::EstimatorSpec>(
+            reader, source, entry, what, kEstimatorCommonKeys, kEstimatorReaders);
+        if (estimator) asset.estimators.push_back(std::move(*estimator));
       });
 
   for_each_named(reader, doc.find("checks"), "checks", "check",
                  [&](const MapEntry& entry, const std::string& what) {
-                   engine::CheckSpec check;
-                   check.name = entry.key;
-                   check.where = where_of(source, entry);
-                   const bool common_ok =
-                       read_keys(reader, entry.value, kCheckCommonKeys, check, what);
-                   auto kind = read_by_kind(reader, entry.value, kCheckReaders, what);
-                   if (common_ok && kind) {
-                     check.kind = std::move(*kind);
-                     asset.checks.push_back(std::move(check));
-                   }
+                   auto check = read_kinded_entry<engine::CheckSpec>(
+                       reader, source, entry, what, kCheckCommonKeys, kCheckReaders);
+                   if (check) asset.checks.push_back(std::move(*check));
                  });
 
   for_each_named(reader, doc.find("records"), "records", "record",
