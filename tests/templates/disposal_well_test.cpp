@@ -76,14 +76,10 @@ Built build(const Scenario& sc) {
 }
 
 std::string site() {
-  return std::string("site: {name: Dry Creek SWD 9, time_zone: America/Chicago}\n") + "rules: [" +
-         BRINEWATCH_SOURCE_DIR + "/rules]\n" +
-         "assets:\n"
-         "  well_1:\n"
-         "    template: disposal_well\n"
-         "    tags: {tubing_pressure: DC9.W1.TUBING, rate: DC9.W1.RATE, annulus_pressure: "
-         "DC9.W1.ANNULUS}\n"
-         "    parameters: {reference_pressure: 400, masip: 3000}\n";
+  return bw::testing::one_asset_site(
+      "well_1", "disposal_well",
+      "{tubing_pressure: DC9.W1.TUBING, rate: DC9.W1.RATE, annulus_pressure: DC9.W1.ANNULUS}",
+      "{reference_pressure: 400, masip: 3000}");
 }
 
 std::vector<AlertEvent> replay(const std::string& name, const Built& built) {

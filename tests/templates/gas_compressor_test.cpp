@@ -31,19 +31,9 @@ constexpr double kStep = 60;  // s
 constexpr double kDay = 86400;
 constexpr double kDays = 6;
 
-const std::string kSite = std::string(R"(site:
-  name: Test Mesa SWD 2
-  time_zone: America/Chicago
-rules: [)") + BRINEWATCH_SOURCE_DIR +
-                          R"(/rules]
-assets:
-  compressor_a:
-    template: gas_compressor
-    tags:
-      speed: TM2.C1.RPM
-      suction_pressure: TM2.C1.PS
-      discharge_pressure: TM2.C1.PD
-)";
+const std::string kSite = bw::testing::one_asset_site(
+    "compressor_a", "gas_compressor",
+    "{speed: TM2.C1.RPM, suction_pressure: TM2.C1.PS, discharge_pressure: TM2.C1.PD}");
 
 struct CompressorStory {
   std::function<double(double)> speed;  // rpm at time t (s)

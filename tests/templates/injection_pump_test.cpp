@@ -38,21 +38,10 @@ constexpr double kStep = 60;  // s
 constexpr double kDay = 86400;
 constexpr double kLearnDays = 3;  // the template's default model_learn_time
 
-const std::string kSite = std::string(R"(site:
-  name: Test Mesa SWD 2
-  time_zone: America/Chicago
-rules: [)") + BRINEWATCH_SOURCE_DIR +
-                          R"(/rules]
-assets:
-  pump_a:
-    template: injection_pump
-    tags:
-      frequency: TM2.P1.HZ
-      suction_pressure: TM2.P1.PS
-      discharge_pressure: TM2.P1.PD
-      flow: TM2.P1.FLOW
-      current: TM2.P1.AMPS
-)";
+const std::string kSite = bw::testing::one_asset_site(
+    "pump_a", "injection_pump",
+    "{frequency: TM2.P1.HZ, suction_pressure: TM2.P1.PS, discharge_pressure: TM2.P1.PD, "
+    "flow: TM2.P1.FLOW, current: TM2.P1.AMPS}");
 
 struct PumpStory {
   std::function<double(double)> frequency;  // Hz at time t (s)

@@ -42,7 +42,7 @@ struct Plan {
 };
 
 WideHistory build(const Plan& plan) {
-  WideHistory history({"DC4.FLT.DP", "DC4.FLT.FLOW"});
+  WideHistory history({"DC9.FLT.DP", "DC9.FLT.FLOW"});
   std::mt19937 random(31);
   std::normal_distribution<double> dp_noise(0.0, 0.2);
   std::normal_distribution<double> flow_noise(0.0, 50.0);
@@ -65,13 +65,9 @@ WideHistory build(const Plan& plan) {
 }
 
 std::string site() {
-  return std::string("site: {name: Dry Creek SWD 4, time_zone: America/Chicago}\n") + "rules: [" +
-         BRINEWATCH_SOURCE_DIR + "/rules]\n" +
-         "assets:\n"
-         "  sock_filters:\n"
-         "    template: sock_filter\n"
-         "    tags: {dp: DC4.FLT.DP, flow: DC4.FLT.FLOW}\n"
-         "    parameters: {reference_flow: 10000, change_out_dp: 25, change_out_lead_time: 36h}\n";
+  return bw::testing::one_asset_site(
+      "sock_filters", "sock_filter", "{dp: DC9.FLT.DP, flow: DC9.FLT.FLOW}",
+      "{reference_flow: 10000, change_out_dp: 25, change_out_lead_time: 36h}");
 }
 
 TEST(SockFilterTemplate, CleanSocksUnderSwingingFlowStayQuiet) {

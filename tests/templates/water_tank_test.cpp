@@ -49,13 +49,9 @@ WideHistory build(double hours, double slug_from_h) {
 }
 
 std::string site() {
-  return std::string("site: {name: Dry Creek SWD 9, time_zone: America/Chicago}\n") + "rules: [" +
-         BRINEWATCH_SOURCE_DIR + "/rules]\n" +
-         "assets:\n"
-         "  gun_barrel:\n"
-         "    template: water_tank\n"
-         "    tags: {level: DC9.GB.LEVEL, interface_level: DC9.GB.INTERFACE}\n"
-         "    parameters: {diameter: 15.5}\n";
+  return bw::testing::one_asset_site("gun_barrel", "water_tank",
+                                     "{level: DC9.GB.LEVEL, interface_level: DC9.GB.INTERFACE}",
+                                     "{diameter: 15.5}");
 }
 
 TEST(WaterTankTemplate, NormalCarryOverAndSkimmingStayQuietForTwoDays) {

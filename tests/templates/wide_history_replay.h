@@ -88,6 +88,16 @@ inline double hours_since_start(const std::string& iso) {
   return static_cast<double>(timegm(&tm) - kHistoryStart) / 3600.0;
 }
 
+// A site file (invented site Dry Creek SWD 9) with one asset of a shipped template; `tags` and
+// `parameters` are YAML flow mappings, e.g. "{level: DC9.TK1.LEVEL}".
+inline std::string one_asset_site(const std::string& asset, const std::string& template_name,
+                                  const std::string& tags, const std::string& parameters = "{}") {
+  return std::string("site: {name: Dry Creek SWD 9, time_zone: America/Chicago}\n") +
+         "rules: [" + BRINEWATCH_SOURCE_DIR + "/rules]\n" + "assets:\n  " + asset +
+         ":\n    template: " + template_name + "\n    tags: " + tags +
+         "\n    parameters: " + parameters + "\n";
+}
+
 inline std::filesystem::path history_dir(const std::string& name) {
   return scratch_dir("templates") / name;
 }
