@@ -1,7 +1,8 @@
 // Replays a constructed history through `brinewatch replay` and reads back the alert events.
 //
 // A test builds a WideHistory (one row per time, one column per tag, the columns in the order
-// given: within a row the engine receives the tags in that order), writes a small site file that
+// given: within a row the engine receives the tags in that order; a NaN value is written as an
+// empty cell, i.e. no sample of that tag in that row), writes a small site file that
 // binds one asset to a shipped template, and gets every alert transition as an AlertEvent with
 // its time in hours since the start of the history, and every record (records_of()). Used by
 // the template tests only.
@@ -10,6 +11,7 @@
 #include <gtest/gtest.h>
 
 #include <algorithm>
+#include <cmath>
 #include <cstdio>
 #include <cstdlib>
 #include <ctime>
@@ -30,7 +32,7 @@ class WideHistory {
  public:
   explicit WideHistory(std::vector<std::string> tags) : tags_(std::move(tags)) {}
 
-  // REQUIRES: one value per tag, times not going back.
+  // REQUIRES: one value per tag (NaN: no sample of that tag), times not going back.
   void add_row(double seconds_from_start, const std::vector<double>& values) {
     rows_.push_back({seconds_from_start, values});
   }
@@ -45,6 +47,10 @@ class WideHistory {
       std::snprintf(line, sizeof line, "%.0f", static_cast<double>(kHistoryStart) + row.seconds);
       out << line;
       for (double v : row.values) {
+        if (std::isnan(v)) {
+          out << ',';
+          continue;
+        }
         std::snprintf(line, sizeof line, ",%.6g", v);
         out << line;
       }
