@@ -117,14 +117,8 @@ Tank build(const Plan& plan) {
 }
 
 std::string site(const std::string& parameters) {
-  return std::string("site: {name: Dry Creek SWD 4, time_zone: America/Chicago}\n") + "rules: [" +
-         BRINEWATCH_SOURCE_DIR + "/rules]\n" +
-         "assets:\n"
-         "  water_tank_2:\n"
-         "    template: tank_level\n"
-         "    tags: {level: DC4.TK2.LEVEL}\n"
-         "    parameters: {" +
-         parameters + "}\n";
+  return bw::testing::one_asset_site("water_tank_2", "tank_level", "{level: DC4.TK2.LEVEL}",
+                                     "{" + parameters + "}");
 }
 
 TEST(TankLevelTemplate, GeometryGivesThePublishedBarrelsPerFoot) {
