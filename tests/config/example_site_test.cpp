@@ -83,7 +83,7 @@ TEST_F(ExampleSite, AppliesParameterOverridesWhereTheyAreUsed) {
 TEST_F(ExampleSite, ConvertsDurationsToSeconds) {
   const auto& tank1 = asset(site(), "water_tank_1");
   EXPECT_DOUBLE_EQ(check<TimeToLimitCheckSpec>(tank1, "overflow_ahead").lead_time_s, 4 * 3600.0);
-  EXPECT_DOUBLE_EQ(estimator<TrendSpec>(tank1, "level_trend").time_constant_s, 21600.0);  // "6h"
+  EXPECT_DOUBLE_EQ(estimator<TrendSpec>(tank1, "level_trend").time_constant_s, 7200.0);   // "2h"
   EXPECT_DOUBLE_EQ(estimator<RateSpec>(tank1, "fill_rate").time_constant_s, 900.0);       // "15min"
   EXPECT_DOUBLE_EQ(input(tank1, "level").expected_interval_s, 60.0);                      // "1min"
 

@@ -50,7 +50,7 @@ constexpr double kStartLevelFt = 7.0;
 // Template defaults (rules/tank_level.yaml).
 constexpr double kHighFt = 18.0;
 constexpr double kHighHighFt = 19.5;
-constexpr double kForecastMemoryH = 6.0;
+constexpr double kForecastMemoryH = 2.0;
 constexpr double kLeadTimeH = 6.0;
 constexpr double kFillRateMemoryH = 0.25;
 constexpr double kFillRateHighBph = 400.0;
