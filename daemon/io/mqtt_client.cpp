@@ -8,7 +8,6 @@
 #include <chrono>
 #include <functional>
 #include <future>
-#include <mutex>
 
 #include "io/backoff.h"
 #include "io/mqtt_connect_options.h"
@@ -92,7 +91,6 @@ class MqttClient::Connection : public std::enable_shared_from_this<Connection> {
   // one runs the strand).
   void run_on_strand(const std::function<void()>& work);
 
-  std::string take_tls_error();
 
   // On the strand:
   void begin_attempt();
@@ -111,8 +109,7 @@ class MqttClient::Connection : public std::enable_shared_from_this<Connection> {
   mqtt::token_ptr pending_connect_;
   std::atomic<bool> active_{false};
   std::atomic<bool> connected_{false};
-  std::mutex tls_error_mutex_;  // paho's TLS error callback and the failure text meet here
-  std::string tls_error_;
+  mqtt::ssl_options tls_options_;  // filled in place, never moved (mqtt_connect_options.h)
   mqtt::connect_options connect_options_;
   TokenListener connect_listener_;
   TokenListener subscribe_listener_;
@@ -137,12 +134,7 @@ Status MqttClient::Connection::init(const std::optional<MqttCredentials>& creden
     return Error{"mqtt setting 'server_uri': '" + settings_.server_uri +
                  "' is not usable: " + e.what()};
   }
-  connect_options_ =
-      mqtt_detail::make_connect_options(settings_, credentials, [this](const std::string& text) {
-        const std::lock_guard<std::mutex> lock(tls_error_mutex_);
-        // OpenSSL reports the root cause first; later lines only say the handshake ended.
-        if (tls_error_.empty()) tls_error_ = text;
-      });
+  mqtt_detail::configure_connect_options(connect_options_, tls_options_, settings_, credentials);
 
   connect_listener_.set(
       [this](const mqtt::token& token) {
@@ -155,7 +147,7 @@ Status MqttClient::Connection::init(const std::optional<MqttCredentials>& creden
         post([session_present](Connection& c) { c.handle_connack(session_present); });
       },
       [this](const mqtt::token& token) {
-        std::string why = mqtt_detail::connect_failure_text(settings_, token, take_tls_error());
+        std::string why = mqtt_detail::connect_failure_text(settings_, token);
         post([why = std::move(why)](Connection& c) { c.handle_failure(why); });
       });
   subscribe_listener_.set(
@@ -188,11 +180,6 @@ Status MqttClient::Connection::init(const std::optional<MqttCredentials>& creden
     post([why = std::move(why)](Connection& c) { c.handle_failure(why); });
   });
   return Ok{};
-}
-
-std::string MqttClient::Connection::take_tls_error() {
-  const std::lock_guard<std::mutex> lock(tls_error_mutex_);
-  return std::exchange(tls_error_, std::string());
 }
 
 void MqttClient::Connection::start() {
@@ -254,7 +241,6 @@ bool MqttClient::Connection::publish(std::uint64_t publish_id, const std::string
 void MqttClient::Connection::begin_attempt() {
   if (state_ != State::kIdle && state_ != State::kWaiting) return;
   state_ = State::kConnecting;
-  take_tls_error();
   try {
     pending_connect_ = client_->connect(connect_options_, nullptr, connect_listener_);
   } catch (const mqtt::exception& e) {

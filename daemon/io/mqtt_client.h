@@ -29,10 +29,12 @@
 //
 // Errors reported through on_connection_lost are sentences for an operator. A lost connection
 // reads "connection to <uri> lost[: cause]"; a failed attempt starts "cannot connect to <uri>: ".
-// A broker certificate not signed by ca_file reads "cannot connect to ssl://...: TLS handshake
-// failed: certificate verify failed (check that ca_file '<path>' is the CA that signed the
-// broker's certificate and that the certificate names the host in server_uri)"; other TLS
-// failures carry OpenSSL's reason the same way. A refused CONNACK reads "... broker refused the
+// A failed TLS handshake (a broker certificate not signed by ca_file, a certificate not naming
+// the host, a client certificate the broker refuses) reads "cannot connect to ssl://...: no
+// connection (...); over TLS, check that ca_file '<path>' is the CA that signed the broker's
+// certificate, that the certificate names the host in server_uri, and that the broker accepts
+// this client's certificate" (paho-mqtt-cpp 1.2 cannot safely pass OpenSSL's own reason on:
+// see mqtt_connect_options.h). A refused CONNACK reads "... broker refused the
 // connection: <reason>" ("not authorized" / "bad user name or password" under 3.1.1, the MQTT 5
 // reason name such as "Not authorized" under 5). A broker that is down, or that closes the
 // connection before CONNACK (e.g. a TLS broker rejecting a missing client certificate after the

@@ -80,22 +80,6 @@ std::string connack_text(int code) {
   }
 }
 
-// OpenSSL formats an error as "[pid:]error:code:library:function:reason:file:line:"; the
-// reason is what an operator can act on.
-std::string openssl_reason(const std::string& text) {
-  const std::size_t start = text.find("error:");
-  if (start == std::string::npos) return text;
-  std::size_t field_start = start;
-  for (int field = 0; field < 4; ++field) {
-    field_start = text.find(':', field_start);
-    if (field_start == std::string::npos) return text;
-    ++field_start;
-  }
-  const std::size_t field_end = text.find(':', field_start);
-  return text.substr(field_start,
-                     field_end == std::string::npos ? std::string::npos : field_end - field_start);
-}
-
 }  // namespace
 
 Status validate_settings(const MqttSettings& s) {
@@ -142,10 +126,9 @@ mqtt::create_options make_create_options(const MqttSettings& settings) {
   return mqtt::create_options(settings.mqtt_version);
 }
 
-mqtt::connect_options make_connect_options(const MqttSettings& settings,
-                                           const std::optional<MqttCredentials>& credentials,
-                                           mqtt::ssl_options::error_handler on_tls_error) {
-  mqtt::connect_options options;
+void configure_connect_options(mqtt::connect_options& options, mqtt::ssl_options& tls,
+                               const MqttSettings& settings,
+                               const std::optional<MqttCredentials>& credentials) {
   options.set_mqtt_version(settings.mqtt_version);
   // paho refuses cleansession != 0 under MQTT 5 and cleanstart != 0 under 3.1.1, so the flag of
   // the other version is always cleared.
@@ -174,33 +157,19 @@ mqtt::connect_options make_connect_options(const MqttSettings& settings,
                                         settings.will->qos, settings.will->retained));
   }
   if (settings.tls) {
-    mqtt::ssl_options ssl;
-    ssl.set_trust_store(settings.tls->ca_file);
+    tls.set_trust_store(settings.tls->ca_file);
     if (!settings.tls->cert_file.empty()) {
-      ssl.set_key_store(settings.tls->cert_file);
-      ssl.set_private_key(settings.tls->key_file);
+      tls.set_key_store(settings.tls->cert_file);
+      tls.set_private_key(settings.tls->key_file);
     }
-    ssl.set_enable_server_cert_auth(true);
-    ssl.set_verify(true);  // the certificate must name the host of server_uri
-    ssl.set_error_handler(std::move(on_tls_error));
-    options.set_ssl(std::move(ssl));
+    tls.set_enable_server_cert_auth(true);
+    tls.set_verify(true);  // the certificate must name the host of server_uri
+    options.set_ssl(tls);
   }
-  return options;
 }
 
-std::string connect_failure_text(const MqttSettings& settings, const mqtt::token& token,
-                                 const std::string& tls_error) {
+std::string connect_failure_text(const MqttSettings& settings, const mqtt::token& token) {
   std::string text = "cannot connect to " + settings.server_uri + ": ";
-  if (!tls_error.empty()) {
-    const std::string reason = openssl_reason(tls_error);
-    text += "TLS handshake failed: " + reason;
-    if (reason == "certificate verify failed" && settings.tls) {
-      text += " (check that ca_file '" + settings.tls->ca_file +
-              "' is the CA that signed the broker's certificate and that the certificate names "
-              "the host in server_uri)";
-    }
-    return text;
-  }
   // Under MQTT 5 paho reports the CONNACK reason code as the return code.
   const int rc = token.get_return_code();
   const int reason = failure_reason(rc) ? rc : token.get_reason_code();
@@ -213,7 +182,9 @@ std::string connect_failure_text(const MqttSettings& settings, const mqtt::token
   if (rc == MQTTASYNC_FAILURE) {
     text += "no connection (refused, closed or timed out before CONNACK)";
     if (settings.tls) {
-      text += "; over TLS this includes a broker rejecting the client certificate or its absence";
+      text += "; over TLS, check that ca_file '" + settings.tls->ca_file +
+              "' is the CA that signed the broker's certificate, that the certificate names the "
+              "host in server_uri, and that the broker accepts this client's certificate";
     }
     return text;
   }

@@ -25,16 +25,20 @@ Status validate_settings(const MqttSettings& settings);
 
 mqtt::create_options make_create_options(const MqttSettings& settings);
 
-// Connect options for every attempt. `on_tls_error` receives OpenSSL's error text during a
-// failed handshake (on a paho thread).
-mqtt::connect_options make_connect_options(const MqttSettings& settings,
-                                           const std::optional<MqttCredentials>& credentials,
-                                           mqtt::ssl_options::error_handler on_tls_error);
+// Fills, in place, the connect options of every attempt and (with TLS) their TLS options.
+// paho-mqtt-cpp 1.2 copies and moves its option objects without pointing their C structs at the
+// new object's own parts (the MQTT 5 properties), so a moved or returned options object points
+// into a destroyed one. Hence both objects are filled where they live for the whole connection
+// and never moved afterwards: the copy that each connect() takes then points into them. For the
+// same reason no TLS error callback is installed: its context would point into the copy that
+// connect() destroys before the handshake fails, so a failed handshake is reported from the
+// token, with what to check, not with OpenSSL's own words.
+void configure_connect_options(mqtt::connect_options& options, mqtt::ssl_options& tls,
+                               const MqttSettings& settings,
+                               const std::optional<MqttCredentials>& credentials);
 
-// "cannot connect to <uri>: <reason>" for a failed connect token; `tls_error` is the last text
-// given to on_tls_error during this attempt (empty if none).
-std::string connect_failure_text(const MqttSettings& settings, const mqtt::token& token,
-                                 const std::string& tls_error);
+// "cannot connect to <uri>: <reason>" for a failed connect token.
+std::string connect_failure_text(const MqttSettings& settings, const mqtt::token& token);
 
 // A short reason for any other failed token (subscribe, publish).
 std::string token_failure_text(const mqtt::token& token);

@@ -307,8 +307,8 @@ TEST(MqttClient, TlsConnectsWithTheRightCaAndIsRefusedClearlyWithAnother) {
   const std::string why = bad_events.losses()[0].why;
   std::printf("[figure] wrong CA reported as: %s\n", why.c_str());
   EXPECT_EQ(why.rfind("cannot connect to " + broker.uri(), 0), 0u) << why;
-  EXPECT_NE(why.find("TLS handshake failed: certificate verify failed"), std::string::npos) << why;
-  EXPECT_NE(why.find(other->ca_cert), std::string::npos) << why;
+  EXPECT_NE(why.find("over TLS, check that ca_file '" + other->ca_cert + "'"), std::string::npos)
+      << why;
   EXPECT_TRUE(bad_events.connects().empty());
 
   // The broker demands a client certificate; without one the handshake fails.
